@@ -1,0 +1,310 @@
+#include "planck.h"
+
+#include <float.h>
+#include <math.h>
+#include <stddef.h>
+
+#include "constants.h"
+
+/* Above this exponent the radiance is evaluated in logarithms (exp(-x) is near underflow). */
+#define LOG_FORM_EXPONENT 700.0
+
+/*
+ * A spectral coordinate reduced to the two numbers Planck's law needs there:
+ * the exponent x = h c / (lambda k T) and the prefactor c1' s^p (with its
+ * logarithm for the far ends), plus the photon energy for photon radiance.
+ */
+struct planck_terms {
+    double exponent_times_t; /* x T, in K */
+    double prefactor;        /* c1' s^p in the coordinate's radiance unit */
+    double log_prefactor;
+    double photon_energy;    /* J */
+};
+
+static gb_status check_position(double position)
+{
+    if (!isfinite(position)) {
+        return GB_ERR_NOT_FINITE;
+    }
+    return position > 0.0 ? GB_OK : GB_ERR_SPECTRAL_DOMAIN;
+}
+
+gb_status gb_check_temperature(double temperature_k)
+{
+    if (!isfinite(temperature_k)) {
+        return GB_ERR_NOT_FINITE;
+    }
+    return (temperature_k > 0.0 && temperature_k <= GB_TEMPERATURE_MAX) ? GB_OK
+                                                                       : GB_ERR_TEMPERATURE_DOMAIN;
+}
+
+gb_status gb_check_emissivity(double emissivity)
+{
+    if (!isfinite(emissivity)) {
+        return GB_ERR_NOT_FINITE;
+    }
+    return (emissivity > 0.0 && emissivity <= 1.0) ? GB_OK : GB_ERR_EMISSIVITY_DOMAIN;
+}
+
+#define C1L_PER_WAVENUMBER_CM 1.19104297239718841407948920e-8 /* 2 h c^2 x 1e8, W m^-2 sr^-1 cm^4 */
+#define C2_CM_K 1.438776877503933802147                         /* c2 in cm K */
+#define TWO_H_OVER_C2 1.4744994647625415786e-50                 /* 2 h / c^2, J s^3 m^-2 */
+#define H_OVER_K 4.799243073366221248e-11                       /* h / k, K s */
+#define HC_UM 1.9864458571489286e-19                          /* h c in J um */
+
+static gb_status planck_terms_at(gb_spectral_coordinate coordinate, double position,
+                                 struct planck_terms *terms)
+{
+    gb_status status = check_position(position);
+    if (status != GB_OK) {
+        return status;
+    }
+    switch (coordinate) {
+    case GB_WAVELENGTH: {
+        double squared = position * position;
+        terms->exponent_times_t = GB_C2_UM / position;
+        terms->prefactor = GB_C1L_UM / (squared * squared * position);
+        terms->log_prefactor = log(GB_C1L_UM) - 5.0 * log(position);
+        terms->photon_energy = HC_UM / position;
+        break;
+    }
+    case GB_WAVENUMBER:
+        terms->exponent_times_t = C2_CM_K * position;
+        terms->prefactor = C1L_PER_WAVENUMBER_CM * position * position * position;
+        terms->log_prefactor = log(C1L_PER_WAVENUMBER_CM) + 3.0 * log(position);
+        terms->photon_energy = HC_UM * position * 1e-4;
+        break;
+    case GB_FREQUENCY:
+        terms->exponent_times_t = H_OVER_K * position;
+        terms->prefactor = TWO_H_OVER_C2 * position * position * position;
+        terms->log_prefactor = log(TWO_H_OVER_C2) + 3.0 * log(position);
+        terms->photon_energy = GB_PLANCK_H * position;
+        break;
+    default:
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    if (!isfinite(terms->exponent_times_t) || !(terms->photon_energy > 0.0)) {
+        return GB_ERR_SPECTRAL_DOMAIN;
+    }
+    return GB_OK;
+}
+
+/* prefactor / expm1(x), robust at both ends. */
+static double bose_einstein_radiance(const struct planck_terms *terms, double exponent)
+{
+    if (exponent <= LOG_FORM_EXPONENT && isnormal(terms->prefactor) && isfinite(terms->prefactor)) {
+        return terms->prefactor / expm1(exponent);
+    }
+    return exp(terms->log_prefactor - exponent) / -expm1(-exponent);
+}
+
+static gb_status planck_common(gb_spectral_coordinate coordinate, double position,
+                               double temperature_k, struct planck_terms *terms,
+                               double *radiance, double *exponent)
+{
+    gb_status status = gb_check_temperature(temperature_k);
+    if (status != GB_OK) {
+        return status;
+    }
+    status = planck_terms_at(coordinate, position, terms);
+    if (status != GB_OK) {
+        return status;
+    }
+    *exponent = terms->exponent_times_t / temperature_k;
+    *radiance = bose_einstein_radiance(terms, *exponent);
+    return isfinite(*radiance) ? GB_OK : GB_ERR_RESULT_OVERFLOW;
+}
+
+gb_status gb_planck_radiance(gb_spectral_coordinate coordinate, double position,
+                             double temperature_k, double emissivity, double *radiance)
+{
+    struct planck_terms terms;
+    double blackbody, exponent;
+    gb_status status;
+    if (radiance == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = gb_check_emissivity(emissivity);
+    if (status == GB_OK) {
+        status = planck_common(coordinate, position, temperature_k, &terms, &blackbody, &exponent);
+    }
+    if (status != GB_OK) {
+        return status;
+    }
+    *radiance = emissivity * blackbody;
+    return GB_OK;
+}
+
+gb_status gb_planck_photon_radiance(gb_spectral_coordinate coordinate, double position,
+                                    double temperature_k, double emissivity,
+                                    double *photon_radiance)
+{
+    struct planck_terms terms;
+    double blackbody, exponent, photons;
+    gb_status status;
+    if (photon_radiance == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = gb_check_emissivity(emissivity);
+    if (status == GB_OK) {
+        status = planck_common(coordinate, position, temperature_k, &terms, &blackbody, &exponent);
+    }
+    if (status != GB_OK) {
+        return status;
+    }
+    photons = emissivity * (blackbody / terms.photon_energy);
+    if (!isfinite(photons)) {
+        return GB_ERR_RESULT_OVERFLOW;
+    }
+    *photon_radiance = photons;
+    return GB_OK;
+}
+
+gb_status gb_planck_radiance_derivative(gb_spectral_coordinate coordinate, double position,
+                                        double temperature_k, double *derivative)
+{
+    struct planck_terms terms;
+    double blackbody, exponent, result;
+    gb_status status;
+    if (derivative == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = planck_common(coordinate, position, temperature_k, &terms, &blackbody, &exponent);
+    if (status != GB_OK) {
+        return status;
+    }
+    /* x / (1 - e^-x) tends to 1 as x -> 0; -expm1(-x) keeps it exact there. */
+    result = blackbody == 0.0 ? 0.0 : blackbody / temperature_k * (exponent / -expm1(-exponent));
+    if (!isfinite(result)) {
+        return GB_ERR_RESULT_OVERFLOW;
+    }
+    *derivative = result;
+    return GB_OK;
+}
+
+gb_status gb_brightness_temperature(gb_spectral_coordinate coordinate, double position,
+                                    double radiance, double emissivity, double *temperature_k)
+{
+    struct planck_terms terms;
+    double ratio, exponent, temperature;
+    gb_status status;
+    if (temperature_k == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    if (!isfinite(radiance)) {
+        return GB_ERR_NOT_FINITE;
+    }
+    status = gb_check_emissivity(emissivity);
+    if (status != GB_OK) {
+        return status;
+    }
+    status = planck_terms_at(coordinate, position, &terms);
+    if (status != GB_OK) {
+        return status;
+    }
+    if (!(radiance > 0.0)) {
+        return GB_ERR_RADIANCE_DOMAIN;
+    }
+    ratio = emissivity * terms.prefactor / radiance;
+    if (isnormal(ratio) && isnormal(terms.prefactor) && isfinite(terms.prefactor)) {
+        exponent = log1p(ratio);
+    } else {
+        /* ln(1 + r) with r = exp(q): q + log1p(exp(-q)), stable for any q. */
+        double log_ratio = log(emissivity) + terms.log_prefactor - log(radiance);
+        exponent = log_ratio > 0.0 ? log_ratio + log1p(exp(-log_ratio)) : log1p(exp(log_ratio));
+    }
+    temperature = terms.exponent_times_t / exponent;
+    if (!(temperature <= GB_TEMPERATURE_MAX)) {
+        return GB_ERR_RADIANCE_OUT_OF_RANGE;
+    }
+    if (!(temperature > 0.0)) {
+        return GB_ERR_RADIANCE_OUT_OF_RANGE;
+    }
+    *temperature_k = temperature;
+    return GB_OK;
+}
+
+gb_status gb_wien_peaks_at(double temperature_k, gb_wien_peaks *peaks)
+{
+    gb_wien_peaks result;
+    gb_status status;
+    if (peaks == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = gb_check_temperature(temperature_k);
+    if (status != GB_OK) {
+        return status;
+    }
+    result.wavelength_um = GB_WIEN_WAVELENGTH_UM_K / temperature_k;
+    result.wavenumber_cm = GB_WIEN_WAVENUMBER_CM_PER_K * temperature_k;
+    result.frequency_hz = GB_WIEN_FREQUENCY_HZ_PER_K * temperature_k;
+    result.photon_wavelength_um = GB_WIEN_PHOTON_WAVELENGTH_UM_K / temperature_k;
+    status = gb_planck_radiance(GB_WAVELENGTH, result.wavelength_um, temperature_k, 1.0,
+                                &result.radiance_at_peak);
+    if (status != GB_OK) {
+        return status;
+    }
+    *peaks = result;
+    return GB_OK;
+}
+
+gb_status gb_wien_temperature(double peak_wavelength_um, double *temperature_k)
+{
+    double temperature;
+    gb_status status;
+    if (temperature_k == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = check_position(peak_wavelength_um);
+    if (status != GB_OK) {
+        return status;
+    }
+    temperature = GB_WIEN_WAVELENGTH_UM_K / peak_wavelength_um;
+    status = gb_check_temperature(temperature);
+    if (status != GB_OK) {
+        return GB_ERR_SPECTRAL_DOMAIN;
+    }
+    *temperature_k = temperature;
+    return GB_OK;
+}
+
+/* eps * constant * T^power, the shape of every Stefan-Boltzmann form. */
+static gb_status total_law(double temperature_k, double emissivity, double constant, int power,
+                           double *out)
+{
+    double result, squared;
+    gb_status status;
+    if (out == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = gb_check_temperature(temperature_k);
+    if (status == GB_OK) {
+        status = gb_check_emissivity(emissivity);
+    }
+    if (status != GB_OK) {
+        return status;
+    }
+    squared = temperature_k * temperature_k;
+    result = emissivity * constant * (power == 4 ? squared * squared : squared * temperature_k);
+    if (!isfinite(result)) {
+        return GB_ERR_RESULT_OVERFLOW;
+    }
+    *out = result;
+    return GB_OK;
+}
+
+gb_status gb_total_exitance(double temperature_k, double emissivity, double *exitance)
+{
+    return total_law(temperature_k, emissivity, GB_SIGMA, 4, exitance);
+}
+
+gb_status gb_total_radiance(double temperature_k, double emissivity, double *radiance)
+{
+    return total_law(temperature_k, emissivity, GB_SIGMA / GB_PI, 4, radiance);
+}
+
+gb_status gb_total_photon_exitance(double temperature_k, double emissivity,
+                                   double *photon_exitance)
+{
+    return total_law(temperature_k, emissivity, GB_SIGMA_PHOTON, 3, photon_exitance);
+}

@@ -71,11 +71,10 @@ static gb_status term_radiance(const gb_band *band, const gb_term *term, double 
     return gb_band_radiance(band, term->value, radiance, derivative);
 }
 
-gb_status gb_measure_solve(const gb_band *band, const gb_scene *scene,
+gb_status gb_measure_terms(const gb_band *band, const gb_scene *scene,
                            gb_measurement *measurement)
 {
     gb_measurement m = {0};
-    double emissivity, transmittance, atmosphere_part, net;
     gb_status status;
     if (measurement == NULL) {
         return GB_ERR_INVALID_ARGUMENT;
@@ -84,12 +83,9 @@ gb_status gb_measure_solve(const gb_band *band, const gb_scene *scene,
     if (status == GB_OK) {
         status = gb_band_validate(band);
     }
-    if (status != GB_OK) {
-        return status;
+    if (status == GB_OK) {
+        status = term_radiance(band, &scene->signal, &m.signal_radiance, &m.signal_derivative);
     }
-    emissivity = scene->emissivity;
-    transmittance = scene->transmittance;
-    status = term_radiance(band, &scene->signal, &m.signal_radiance, &m.signal_derivative);
     if (status == GB_OK) {
         status = term_radiance(band, &scene->reflected, &m.reflected_radiance,
                                &m.reflected_derivative);
@@ -101,18 +97,32 @@ gb_status gb_measure_solve(const gb_band *band, const gb_scene *scene,
     if (status != GB_OK) {
         return status;
     }
-    atmosphere_part = scene->atmosphere.kind == GB_TERM_TEMPERATURE
-                          ? (1.0 - transmittance) * m.atmosphere_radiance
-                          : m.atmosphere_radiance;
+    m.atmosphere_part = scene->atmosphere.kind == GB_TERM_TEMPERATURE
+                            ? (1.0 - scene->transmittance) * m.atmosphere_radiance
+                            : m.atmosphere_radiance;
+    *measurement = m;
+    return GB_OK;
+}
+
+gb_status gb_measure_solve(const gb_band *band, const gb_scene *scene,
+                           gb_measurement *measurement)
+{
+    gb_measurement m;
+    double emissivity, transmittance, net, check_radiance;
+    gb_status status = gb_measure_terms(band, scene, &m);
+    if (status != GB_OK) {
+        return status;
+    }
+    emissivity = scene->emissivity;
+    transmittance = scene->transmittance;
     net = m.signal_radiance - transmittance * (1.0 - emissivity) * m.reflected_radiance -
-          atmosphere_part;
+          m.atmosphere_part;
     m.surface_radiance = net / (transmittance * emissivity);
     if (!(m.surface_radiance > 0.0)) {
         return GB_ERR_NET_SIGNAL_NOT_POSITIVE;
     }
     status = gb_band_temperature(band, m.surface_radiance, 1.0, &m.temperature_k);
     if (status == GB_OK) {
-        double check_radiance;
         status = gb_band_radiance(band, m.temperature_k, &check_radiance, &m.surface_derivative);
     }
     if (status != GB_OK) {

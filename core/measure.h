@@ -59,10 +59,19 @@ typedef struct gb_measurement {
     double reflected_derivative;   /* L'(T_refl); 0 for a radiance term */
     double atmosphere_radiance;    /* L(T_atm), or L_path */
     double atmosphere_derivative;  /* L'(T_atm); 0 for a radiance term or tau = 1 */
+    double atmosphere_part;        /* A: (1 - tau) L(T_atm), or L_path */
 } gb_measurement;
 
 /* Checks the scene alone (no band): emissivity, transmittance, each term. */
 gb_status gb_scene_validate(const gb_scene *scene);
+
+/*
+ * Evaluates the known terms only (signal, reflected, atmosphere and A) into
+ * `measurement`; the surface fields are left 0.  Used by solvers that take
+ * the equation for another unknown.
+ */
+gb_status gb_measure_terms(const gb_band *band, const gb_scene *scene,
+                           gb_measurement *measurement);
 
 /* Solves the measurement equation for T.  GB_ERR_NET_SIGNAL_NOT_POSITIVE when L(T) <= 0. */
 gb_status gb_measure_solve(const gb_band *band, const gb_scene *scene,

@@ -34,14 +34,24 @@ static const struct status_entry status_table[GB_STATUS_COUNT] = {
     [GB_ERR_RESPONSE_ALL_ZERO] = {"response_all_zero",
                                   "A spectral response needs at least one value above 0."},
     [GB_ERR_RADIANCE_OUT_OF_RANGE] = {"radiance_unreachable",
-                                      "No temperature between 0.1 K and 1e6 K gives this radiance "
-                                      "in this band."},
+                                      "No temperature in the supported range gives this "
+                                      "radiance here."},
     [GB_ERR_NET_SIGNAL_NOT_POSITIVE] = {"net_signal_not_positive",
                                         "After removing the reflected and atmospheric parts no "
                                         "signal from the surface is left; the surface temperature "
                                         "cannot be recovered."},
     [GB_ERR_RESULT_OVERFLOW] = {"result_overflow", "The result is too large to represent."},
     [GB_ERR_NO_CONVERGENCE] = {"no_convergence", "The solver did not converge."},
+    [GB_ERR_EMISSIVITY_UNDETERMINED] = {"emissivity_undetermined",
+                                        "The surface at its true temperature and its surroundings "
+                                        "give the same radiance, so no emissivity can be read; "
+                                        "raise the contrast between surface and background."},
+    [GB_ERR_RATIO_UNREACHABLE] = {"ratio_unreachable",
+                                  "No temperature between 0.1 K and 1e6 K gives this signal ratio."},
+    [GB_ERR_DRAW_COUNT] = {"draw_count_out_of_range",
+                           "The number of Monte Carlo draws is outside the allowed range."},
+    [GB_ERR_DISTRIBUTION_UNKNOWN] = {"distribution_unknown",
+                                     "An input distribution must be normal or rectangular."},
 };
 
 static const struct status_entry *entry_for(gb_status status)

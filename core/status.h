@@ -30,6 +30,10 @@ typedef enum gb_status {
     GB_ERR_NET_SIGNAL_NOT_POSITIVE, /* after removing reflected and atmospheric terms nothing is left */
     GB_ERR_RESULT_OVERFLOW,         /* the result is too large for a double */
     GB_ERR_NO_CONVERGENCE,          /* an iteration did not converge (a defect: please report) */
+    GB_ERR_EMISSIVITY_UNDETERMINED, /* surface and surroundings give the same radiance */
+    GB_ERR_RATIO_UNREACHABLE,       /* no temperature gives this two-colour signal ratio */
+    GB_ERR_DRAW_COUNT,              /* Monte Carlo draw count outside the allowed range */
+    GB_ERR_DISTRIBUTION_UNKNOWN,    /* an input distribution that is not normal or rectangular */
     GB_STATUS_COUNT
 } gb_status;
 

@@ -52,6 +52,21 @@ static const struct status_entry status_table[GB_STATUS_COUNT] = {
                            "The number of Monte Carlo draws is outside the allowed range."},
     [GB_ERR_DISTRIBUTION_UNKNOWN] = {"distribution_unknown",
                                      "An input distribution must be normal or rectangular."},
+    [GB_ERR_CALIBRATION_TOO_FEW_POINTS] = {"calibration_too_few_points",
+                                           "The model needs at least one more calibration point "
+                                           "than it has parameters."},
+    [GB_ERR_CALIBRATION_DEGENERATE] = {"calibration_degenerate",
+                                       "The points have too few distinct temperatures to "
+                                       "determine the model."},
+    [GB_ERR_CALIBRATION_NOT_MONOTONIC] = {"calibration_not_monotonic",
+                                          "The signal must rise strictly with the source "
+                                          "temperature."},
+    [GB_ERR_CALIBRATION_NO_FIT] = {"calibration_no_fit",
+                                   "The fit did not converge to a usable model for these points."},
+    [GB_ERR_UNCERTAINTY_PARTIAL] = {"uncertainty_partial",
+                                    "Give uncertainties for every calibration point or for none."},
+    [GB_ERR_SIGNAL_OUT_OF_RANGE] = {"signal_out_of_range",
+                                    "No temperature gives this signal under the calibration."},
 };
 
 static const struct status_entry *entry_for(gb_status status)

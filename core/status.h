@@ -34,6 +34,12 @@ typedef enum gb_status {
     GB_ERR_RATIO_UNREACHABLE,       /* no temperature gives this two-colour signal ratio */
     GB_ERR_DRAW_COUNT,              /* Monte Carlo draw count outside the allowed range */
     GB_ERR_DISTRIBUTION_UNKNOWN,    /* an input distribution that is not normal or rectangular */
+    GB_ERR_CALIBRATION_TOO_FEW_POINTS, /* fewer points than the model has parameters, plus one */
+    GB_ERR_CALIBRATION_DEGENERATE,  /* too few distinct temperatures to determine the model */
+    GB_ERR_CALIBRATION_NOT_MONOTONIC, /* signal does not rise with temperature */
+    GB_ERR_CALIBRATION_NO_FIT,      /* the fit did not converge to a usable model */
+    GB_ERR_UNCERTAINTY_PARTIAL,     /* uncertainties given for some points but not all */
+    GB_ERR_SIGNAL_OUT_OF_RANGE,     /* no temperature gives this signal under the calibration */
     GB_STATUS_COUNT
 } gb_status;
 

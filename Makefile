@@ -77,8 +77,10 @@ test-unit: $(UNIT_BIN)
 
 test-reference:
 	@$(PYTHON_REF) tests/reference/generate.py --check
+	@$(PYTHON_REF) tests/reference/workflows.py --check
 
 test-integration: $(INTEG_BIN)
+	@$(PYTHON_REF) tests/integration/check_openapi.py
 	@sh tools/run-tests.sh integration $(INTEG_BIN)
 
 clean:

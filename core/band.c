@@ -6,13 +6,12 @@
 #include "fraction.h"
 #include "planck.h"
 #include "quadrature.h"
+#include "solver.h"
 
 /* A difference of fractions that loses more than 6 bits to cancellation goes to quadrature. */
 #define CANCELLATION_LIMIT 64.0
 #define MICROMETRES_PER_CENTIMETRE 1e4
 #define EXPONENT_UNDERFLOW 745.0
-#define MAX_SOLVER_STEPS 200
-#define SOLVER_RELATIVE_STEP 1e-13
 
 static gb_status check_positive_limit(double value)
 {
@@ -305,61 +304,18 @@ static double first_guess(const gb_band *band, double radiance)
     return guess;
 }
 
-/*
- * Newton's method on g(u) = ln L(1/u) - ln L_target, u = 1/T: nearly linear in
- * u at the Wien end and like -ln u at the Rayleigh-Jeans end, so Newton
- * converges fast at both; a bracket kept from every evaluation catches any
- * step that leaves it, and bisection (in ln u) takes over.
- */
-static gb_status solve_band_temperature(const gb_band *band, double target,
-                                        double *temperature_k)
+/* ln L_band(T) and its slope, for the shared solver; an underflowed radiance cannot be used. */
+static gb_status log_band_radiance(const void *context, double temperature_k, double *value,
+                                   double *slope)
 {
-    double u_low = 1.0 / GB_BAND_TEMPERATURE_MAX; /* hottest end: g > 0 there */
-    double u_high = 1.0 / GB_BAND_TEMPERATURE_MIN; /* coldest end: g < 0 there */
-    double u = 1.0 / first_guess(band, target);
     struct band_values values;
-
-    band_values_at(band, GB_BAND_TEMPERATURE_MAX, &values);
-    if (!(target <= values.radiance)) {
+    band_values_at(context, temperature_k, &values);
+    if (!(values.radiance > 0.0)) {
         return GB_ERR_RADIANCE_OUT_OF_RANGE;
     }
-    band_values_at(band, GB_BAND_TEMPERATURE_MIN, &values);
-    if (target < values.radiance) {
-        return GB_ERR_RADIANCE_OUT_OF_RANGE;
-    }
-    for (int step = 0; step < MAX_SOLVER_STEPS; ++step) {
-        double temperature = 1.0 / u, next, mismatch, slope;
-        band_values_at(band, temperature, &values);
-        if (!(values.radiance > 0.0)) {
-            u_high = u; /* underflowed: far too cold */
-            next = sqrt(u_low * u_high);
-        } else {
-            mismatch = log(values.radiance / target);
-            if (mismatch > 0.0) {
-                u_low = u;
-            } else {
-                u_high = u;
-            }
-            if (mismatch == 0.0) {
-                *temperature_k = temperature;
-                return GB_OK;
-            }
-            slope = -values.derivative / values.radiance * temperature * temperature;
-            next = u - mismatch / slope;
-            if (!(next >= u_low && next <= u_high)) {
-                next = sqrt(u_low * u_high);
-            } else if (fabs(next - u) <= SOLVER_RELATIVE_STEP * u) {
-                *temperature_k = 1.0 / next;
-                return GB_OK;
-            }
-        }
-        if (u_high - u_low <= SOLVER_RELATIVE_STEP * u_low) {
-            *temperature_k = 2.0 / (u_low + u_high);
-            return GB_OK;
-        }
-        u = next;
-    }
-    return GB_ERR_NO_CONVERGENCE;
+    *value = log(values.radiance);
+    *slope = values.derivative / values.radiance;
+    return GB_OK;
 }
 
 gb_status gb_band_temperature(const gb_band *band, double radiance, double emissivity,
@@ -395,5 +351,6 @@ gb_status gb_band_temperature(const gb_band *band, double radiance, double emiss
         *temperature_k = temperature;
         return GB_OK;
     }
-    return solve_band_temperature(band, target, temperature_k);
+    return gb_solve_rising(log_band_radiance, band, log(target), first_guess(band, target),
+                           temperature_k, NULL);
 }

@@ -18,6 +18,15 @@
  * (Blackman & Vigna, 2018) seeded through splitmix64, so a seed gives the
  * same answer on every machine; normal deviates by the Box-Muller transform.
  * The caller provides `workspace` of `draws` doubles; nothing is allocated.
+ *
+ * Statuses beyond the scene's own: GB_ERR_DRAW_COUNT (draws outside
+ * [GB_MONTE_CARLO_MIN_DRAWS, GB_MONTE_CARLO_MAX_DRAWS]);
+ * GB_ERR_DISTRIBUTION_UNKNOWN; GB_ERR_UNCERTAINTY_DOMAIN (u < 0, or an input
+ * whose distribution never lands in its domain in 1000 tries);
+ * GB_ERR_INVALID_ARGUMENT when transmittance or atmosphere is to be varied but
+ * the atmosphere temperature is absent (NaN with tau = 1);
+ * GB_ERR_NET_SIGNAL_NOT_POSITIVE when fewer than GB_MONTE_CARLO_MIN_DRAWS
+ * draws had a solution.
  */
 #ifndef GREYBODY_MONTECARLO_H
 #define GREYBODY_MONTECARLO_H
@@ -51,7 +60,8 @@ typedef struct gb_monte_carlo_result {
     double coverage_low_k;   /* 2.5 % quantile */
     double coverage_high_k;  /* 97.5 % quantile */
     size_t used_draws;       /* draws with a solution */
-    size_t unsolvable_draws; /* draws whose net surface signal was not positive */
+    size_t unsolvable_draws; /* draws with no solution: net surface signal not positive,
+                                or a temperature outside the band solver's range */
 } gb_monte_carlo_result;
 
 gb_status gb_monte_carlo(const gb_band *band, const gb_scene *scene,

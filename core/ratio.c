@@ -5,9 +5,9 @@
 
 #include "constants.h"
 #include "planck.h"
+#include "solver.h"
 
-#define MAX_SOLVER_STEPS 200
-#define SOLVER_RELATIVE_STEP 1e-13
+#define FIRST_GUESS_K 1000.0
 
 static gb_status check_channel(const gb_channel *channel)
 {
@@ -23,40 +23,70 @@ static gb_status check_channel(const gb_channel *channel)
     return channel->wavelength_um > 0.0 ? GB_OK : GB_ERR_SPECTRAL_DOMAIN;
 }
 
-/* L and dL/dT of one channel at T (valid channel and T). */
-static gb_status channel_radiance(const gb_channel *channel, double temperature_k,
-                                  double *radiance, double *derivative)
+#define LOG_C1L_UM 18.59551011461265267347/* ln(2 h c^2) for wavelengths in um */
+
+/*
+ * ln L and d(ln L)/dT of one channel at T (valid channel and T).  A single
+ * wavelength is done in logarithms throughout, so that ratios of radiances
+ * far below the smallest double (cold targets at short wavelengths) still
+ * come out right: ln L = ln c1' - 5 ln(lambda) - ln(e^x - 1).
+ */
+static gb_status channel_log_radiance(const gb_channel *channel, double temperature_k,
+                                      double *log_radiance, double *log_slope)
 {
-    gb_status status;
     if (channel->is_band) {
-        return gb_band_radiance(&channel->band, temperature_k, radiance, derivative);
+        double radiance, derivative;
+        gb_status status =
+            gb_band_radiance(&channel->band, temperature_k, &radiance, &derivative);
+        if (status != GB_OK) {
+            return status;
+        }
+        if (!(radiance > 0.0)) {
+            return GB_ERR_RADIANCE_OUT_OF_RANGE;
+        }
+        *log_radiance = log(radiance);
+        *log_slope = derivative / radiance;
+        return GB_OK;
     }
-    status = gb_planck_radiance(GB_WAVELENGTH, channel->wavelength_um, temperature_k, 1.0,
-                                radiance);
-    if (status == GB_OK) {
-        status = gb_planck_radiance_derivative(GB_WAVELENGTH, channel->wavelength_um,
-                                               temperature_k, derivative);
+    {
+        double x = GB_C2_UM / (channel->wavelength_um * temperature_k);
+        double one_minus_decay = -expm1(-x);
+        /* ln(e^x - 1) = x + ln(1 - e^-x) */
+        *log_radiance = LOG_C1L_UM - 5.0 * log(channel->wavelength_um) - x - log(one_minus_decay);
+        *log_slope = x / (temperature_k * one_minus_decay);
+        return isfinite(*log_radiance) ? GB_OK : GB_ERR_RADIANCE_OUT_OF_RANGE;
     }
-    return status;
 }
 
-/* ln of the model ratio and its derivative with respect to T; 0 from status when defined. */
+/*
+ * ln of the model ratio and its derivative with respect to T.  Two single
+ * wavelengths take the closed form 5 ln(l2/l1) - (x1 - x2) - ln(1 - e^-x1)
+ * + ln(1 - e^-x2), whose terms are small, so ln R keeps its accuracy near
+ * the Rayleigh-Jeans limit where it is nearly constant.
+ */
 static gb_status log_ratio(const gb_channel *first, const gb_channel *second,
                            double temperature_k, double *value, double *slope)
 {
-    double l1, d1, l2, d2;
-    gb_status status = channel_radiance(first, temperature_k, &l1, &d1);
+    double l1, s1, l2, s2;
+    gb_status status;
+    if (!first->is_band && !second->is_band) {
+        double w1 = first->wavelength_um, w2 = second->wavelength_um;
+        double x1 = GB_C2_UM / (w1 * temperature_k), x2 = GB_C2_UM / (w2 * temperature_k);
+        double keep1 = -expm1(-x1), keep2 = -expm1(-x2);
+        *value = 5.0 * log(w2 / w1) - GB_C2_UM / temperature_k * (1.0 / w1 - 1.0 / w2) -
+                 log(keep1) + log(keep2);
+        *slope = (x1 / keep1 - x2 / keep2) / temperature_k;
+        return isfinite(*value) ? GB_OK : GB_ERR_RADIANCE_OUT_OF_RANGE;
+    }
+    status = channel_log_radiance(first, temperature_k, &l1, &s1);
     if (status == GB_OK) {
-        status = channel_radiance(second, temperature_k, &l2, &d2);
+        status = channel_log_radiance(second, temperature_k, &l2, &s2);
     }
     if (status != GB_OK) {
         return status;
     }
-    if (!(l1 > 0.0 && l2 > 0.0)) {
-        return GB_ERR_RADIANCE_OUT_OF_RANGE;
-    }
-    *value = log(l1) - log(l2);
-    *slope = d1 / l1 - d2 / l2;
+    *value = l1 - l2;
+    *slope = s1 - s2;
     return GB_OK;
 }
 
@@ -108,58 +138,16 @@ gb_status gb_ratio_at(const gb_channel *first, const gb_channel *second, double 
     return GB_OK;
 }
 
-/* Where the model's log ratio reaches `target`, by safeguarded Newton in u = 1/T. */
-static gb_status solve_ratio(const gb_channel *first, const gb_channel *second, double target,
-                             double *temperature_k, double *slope_at_solution)
+struct channel_pair {
+    const gb_channel *first;
+    const gb_channel *second;
+};
+
+static gb_status pair_log_ratio(const void *context, double temperature_k, double *value,
+                                double *slope)
 {
-    double u_low = 1.0 / GB_BAND_TEMPERATURE_MAX, u_high = 1.0 / GB_BAND_TEMPERATURE_MIN;
-    double value, slope, u = 1.0 / 1000.0;
-    gb_status status = log_ratio(first, second, GB_BAND_TEMPERATURE_MAX, &value, &slope);
-    if (status != GB_OK || !(target <= value)) {
-        return GB_ERR_RATIO_UNREACHABLE;
-    }
-    for (int step = 0; step < MAX_SOLVER_STEPS; ++step) {
-        double temperature = 1.0 / u, next, mismatch;
-        status = log_ratio(first, second, temperature, &value, &slope);
-        if (status != GB_OK) {
-            u_high = u; /* a channel underflowed: too cold */
-            next = sqrt(u_low * u_high);
-        } else {
-            mismatch = value - target;
-            if (mismatch == 0.0) {
-                *temperature_k = temperature;
-                *slope_at_solution = slope;
-                return GB_OK;
-            }
-            if (mismatch > 0.0) {
-                u_low = u;
-            } else {
-                u_high = u;
-            }
-            next = u + mismatch / (slope * temperature * temperature);
-            if (!(next >= u_low && next <= u_high) || !(slope > 0.0)) {
-                next = sqrt(u_low * u_high);
-            } else if (fabs(next - u) <= SOLVER_RELATIVE_STEP * u) {
-                status = log_ratio(first, second, 1.0 / next, &value, &slope);
-                if (status != GB_OK) {
-                    return status;
-                }
-                *temperature_k = 1.0 / next;
-                *slope_at_solution = slope;
-                return GB_OK;
-            }
-        }
-        if (u_high - u_low <= SOLVER_RELATIVE_STEP * u_low) {
-            if (1.0 / u_high <= GB_BAND_TEMPERATURE_MIN * (1.0 + 1e-9)) {
-                return GB_ERR_RATIO_UNREACHABLE;
-            }
-            *temperature_k = 2.0 / (u_low + u_high);
-            status = log_ratio(first, second, *temperature_k, &value, slope_at_solution);
-            return status == GB_OK ? GB_OK : GB_ERR_RATIO_UNREACHABLE;
-        }
-        u = next;
-    }
-    return GB_ERR_NO_CONVERGENCE;
+    const struct channel_pair *pair = context;
+    return log_ratio(pair->first, pair->second, temperature_k, value, slope);
 }
 
 gb_status gb_ratio_temperature(const gb_channel *first, const gb_channel *second,
@@ -182,10 +170,13 @@ gb_status gb_ratio_temperature(const gb_channel *first, const gb_channel *second
     if (!(signal_ratio > 0.0)) {
         return GB_ERR_RADIANCE_DOMAIN;
     }
-    status = solve_ratio(first, second, log(signal_ratio) - log(emissivity_ratio),
-                         &answer.temperature_k, &slope);
+    {
+        struct channel_pair pair = {first, second};
+        status = gb_solve_rising(pair_log_ratio, &pair, log(signal_ratio) - log(emissivity_ratio),
+                                 FIRST_GUESS_K, &answer.temperature_k, &slope);
+    }
     if (status != GB_OK) {
-        return status;
+        return status == GB_ERR_RADIANCE_OUT_OF_RANGE ? GB_ERR_RATIO_UNREACHABLE : status;
     }
     answer.emissivity_ratio_sensitivity = -1.0 / (emissivity_ratio * slope);
     if (!first->is_band && !second->is_band) {

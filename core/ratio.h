@@ -8,7 +8,11 @@
  * in band.h, over [GB_BAND_TEMPERATURE_MIN, GB_BAND_TEMPERATURE_MAX]; the
  * model ratio must rise with T, i.e. channel 1 lies at shorter wavelengths
  * than channel 2 (checked for single wavelengths; for bands a falling ratio
- * gives GB_ERR_RATIO_UNREACHABLE).  Relative error <= 1e-12 in T.
+ * gives GB_ERR_RATIO_UNREACHABLE).  Single wavelengths are worked in
+ * logarithms, so cold targets whose radiances underflow still solve.
+ * Accuracy: relative error <= 1e-12 in T, or, near the Rayleigh-Jeans limit
+ * where the ratio hardly changes with T, |dT| <= 4e-15 / |d lnR/dT|
+ * (the rounding of ln R, magnified by the conditioning).
  * Wien approximation (single wavelengths only; reported beside the exact
  * answer so users see what the approximation costs):
  *   T_W = c2 (1/lambda1 - 1/lambda2) / (ln r_eps + 5 ln(lambda2/lambda1) - ln R)

@@ -4,8 +4,12 @@
  * gb_spectral_grid fills `count` positions from `lower` to `upper`
  * inclusive, evenly spaced (linear) or in equal ratios (logarithmic, for
  * curves spanning decades).  Any positive unit: the grid does not care.
- * The end points are exact; inner points are within 2 ulp of
- * lower + i (upper - lower)/(count - 1), or lower (upper/lower)^(i/(count - 1)).
+ * The end points are exact.  Inner points: linear grids within 3 ulp of
+ * lower + s (upper - lower); logarithmic grids within (2 + |ln(upper/lower)|)
+ * ulp of lower (upper/lower)^s, s = i/(count - 1) (the rounding of s is
+ * magnified by the logarithm of the span).  When upper/lower is beyond a
+ * double the logarithmic points are exp(ln lower + s (ln upper - ln lower)),
+ * within (2 + |ln lower| + |ln upper|) ulp.
  */
 #ifndef GREYBODY_SPECTRUM_H
 #define GREYBODY_SPECTRUM_H

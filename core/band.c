@@ -8,10 +8,15 @@
 #include "quadrature.h"
 #include "solver.h"
 
-/* A difference of fractions that loses more than 6 bits to cancellation goes to quadrature. */
-#define CANCELLATION_LIMIT 64.0
+/*
+ * A difference of fractions that loses more than 2 bits to cancellation goes
+ * to quadrature: both carry the exponent's rounding (x + 1) eps, so beyond
+ * that the quadrature is the more accurate.
+ */
+#define CANCELLATION_LIMIT 4.0
 #define MICROMETRES_PER_CENTIMETRE 1e4
 #define EXPONENT_UNDERFLOW 745.0
+#define SUBNORMAL_SAFE_EXPONENT 700.0
 
 static gb_status check_positive_limit(double value)
 {
@@ -118,6 +123,9 @@ static double fraction_slope_term(double x)
 {
     if (x > EXPONENT_UNDERFLOW) {
         return 0.0;
+    }
+    if (x > SUBNORMAL_SAFE_EXPONENT) {
+        return exp(4.0 * log(x) - x - log(-expm1(-x)));
     }
     return x * x * x * x / expm1(x);
 }
@@ -259,7 +267,8 @@ gb_status gb_band_evaluate(const gb_band *band, double temperature_k, double emi
     result.radiance = emissivity * values.radiance;
     result.exitance = GB_PI * result.radiance;
     result.photon_exitance = emissivity * values.photon_exitance;
-    result.fraction = GB_PI * values.radiance / total_exitance;
+    /* A body so cold that sigma T^4 underflows emits nothing anywhere: share 0. */
+    result.fraction = total_exitance > 0.0 ? GB_PI * values.radiance / total_exitance : 0.0;
     result.total_exitance = emissivity * total_exitance;
     result.radiance_derivative = emissivity * values.derivative;
     if (!isfinite(result.exitance) || !isfinite(result.fraction)) {
@@ -345,7 +354,7 @@ gb_status gb_band_temperature(const gb_band *band, double radiance, double emiss
     }
     if (band->kind == GB_BAND_TOTAL) {
         temperature = sqrt(sqrt(target * GB_PI / GB_SIGMA));
-        if (!(temperature <= GB_TEMPERATURE_MAX)) {
+        if (!(temperature >= GB_BAND_TEMPERATURE_MIN && temperature <= GB_BAND_TEMPERATURE_MAX)) {
             return GB_ERR_RADIANCE_OUT_OF_RANGE;
         }
         *temperature_k = temperature;

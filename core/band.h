@@ -20,14 +20,17 @@
  * tests/unit/test_band.c):
  *   flat bands: difference of blackbody fractions (fraction.h), choosing F or
  *     1 - F to cancel least; when the band holds so small a share that the
- *     difference would lose more than 6 bits, 20-point Gauss-Legendre
+ *     difference would lose more than 2 bits, 20-point Gauss-Legendre
  *     quadrature of Planck's law over the band instead.  dL/dT from the
  *     closed form (sigma T^3 / pi)[4 dF + (15/pi^4)(x2^4/(e^x2-1) -
- *     x1^4/(e^x1-1))].  Relative error <= 1e-13 for T in [1 K, 1e6 K] and
- *     limits in [1e-3 um, 1e5 um] (worst measured is in the test's note).
+ *     x1^4/(e^x1-1))].  With x = c2/(lambda_short T): relative error <= 1e-13
+ *     for x <= 100, <= (x + 4) 1e-15 beyond (the rounding of x, magnified by
+ *     x through e^-x, as in planck.h), for T in [1 K, 1e6 K] and limits in
+ *     [1e-3 um, 1e5 um], wherever the band radiance is a normal double (the
+ *     other quantities derive from it and share its digits).
  *   response bands: 20-point Gauss-Legendre on each linear piece, subdivided
  *     so that every sub-interval spans a wavelength ratio <= 1.5 and an
- *     exponent range <= 6; relative error <= 1e-12 (claimed 1e-9).
+ *     exponent range <= 6; relative error <= 1e-12.
  * A band whose radiance underflows at a very low temperature gives 0.
  */
 #ifndef GREYBODY_BAND_H
@@ -80,9 +83,10 @@ gb_status gb_band_evaluate(const gb_band *band, double temperature_k, double emi
 /*
  * Inverse: the temperature at which a grey body of `emissivity` has band
  * radiance `radiance`.  Safeguarded Newton iteration on ln L against 1/T
- * within [GB_BAND_TEMPERATURE_MIN, GB_BAND_TEMPERATURE_MAX], falling back to
- * bisection, so it always converges; relative error <= 1e-12 (<= 1 uK up to
- * 1e5 K).  GB_ERR_RADIANCE_DOMAIN for radiance <= 0;
+ * within [GB_BAND_TEMPERATURE_MIN, GB_BAND_TEMPERATURE_MAX] (solver.h), so
+ * it always converges; relative error <= 1e-12 (<= 1 uK up to 1e5 K).  The
+ * whole spectrum (GB_BAND_TOTAL) inverts in closed form, within the same
+ * temperature range.  GB_ERR_RADIANCE_DOMAIN for radiance <= 0;
  * GB_ERR_RADIANCE_OUT_OF_RANGE when the answer lies outside that range.
  */
 gb_status gb_band_temperature(const gb_band *band, double radiance, double emissivity,

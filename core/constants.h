@@ -23,7 +23,7 @@
 /* Stefan-Boltzmann constant sigma = 2 pi^5 k^4 / (15 h^3 c^2), W m^-2 K^-4. */
 #define GB_SIGMA 5.670374419184429454e-8
 /* Photon Stefan-Boltzmann constant 4 pi zeta(3) k^3 / (h^3 c^2), s^-1 m^-2 K^-3. */
-#define GB_SIGMA_PHOTON 1.520460859393136e15
+#define GB_SIGMA_PHOTON 1.520460859393136211282446e15
 
 /* Roots of x = q (1 - e^-x): x_q = q + W0(-q e^-q). */
 #define GB_WIEN_X5 4.96511423174427630369875913132 /* radiance per wavelength */
@@ -33,7 +33,7 @@
 
 /* Wien displacement constants. */
 #define GB_WIEN_WAVELENGTH_UM_K 2897.771955185172661         /* c2 / x5, um K */
-#define GB_WIEN_PHOTON_WAVELENGTH_UM_K 3669.702865050074     /* c2 / x4, um K */
+#define GB_WIEN_PHOTON_WAVELENGTH_UM_K 3669.702865050074266496195    /* c2 / x4, um K */
 #define GB_WIEN_FREQUENCY_HZ_PER_K 5.878925757646824947e10   /* x3 k / h, Hz K^-1 */
 #define GB_WIEN_WAVENUMBER_CM_PER_K 1.960998551086573681     /* x3 / c2, cm^-1 K^-1 */
 

@@ -54,35 +54,41 @@ static size_t exponential_term_count(double x)
     return (size_t)ceil(EXPONENTIAL_TERMS_SCALE / x) + 1;
 }
 
-/* sum_n e^(-n x)/n (x^3 + 3x^2/n + 6x/n^2 + 6/n^3): int_x^inf t^3/(e^t-1) dt. */
-static double energy_tail_integral(double x)
+/* Above this x, e^-x is near the subnormal range: the common factor is applied in logarithms. */
+#define SUBNORMAL_SAFE_EXPONENT 700.0
+#define NEGLIGIBLE_BEYOND_X 800.0
+
+/* sum_n e^(-n x) p(x, n) / n as e^-x times a sum that starts at p(x, 1). */
+static double exponential_series(double x, double (*term)(double x, double inverse_n))
 {
     double decay = exp(-x);
-    double power = decay;
-    double sum = 0.0;
+    double power = 1.0;
+    double scaled = 0.0;
     size_t terms = exponential_term_count(x);
+    if (!(x < NEGLIGIBLE_BEYOND_X)) {
+        return 0.0; /* x^3 e^-x is below the smallest double (and x^3 alone may overflow) */
+    }
     for (size_t n = 1; n <= terms && power > 0.0; ++n) {
         double inverse_n = 1.0 / (double)n;
-        sum += power * inverse_n *
-               (x * x * x + inverse_n * (3.0 * x * x + inverse_n * (6.0 * x + 6.0 * inverse_n)));
+        scaled += power * inverse_n * term(x, inverse_n);
         power *= decay;
     }
-    return sum;
+    if (x <= SUBNORMAL_SAFE_EXPONENT) {
+        return decay * scaled;
+    }
+    return exp(log(scaled) - x);
 }
 
-/* sum_n e^(-n x)/n (x^2 + 2x/n + 2/n^2): int_x^inf t^2/(e^t-1) dt. */
-static double photon_tail_integral(double x)
+/* x^3 + 3x^2/n + 6x/n^2 + 6/n^3: int_x^inf t^3/(e^t-1) dt = sum_n e^(-nx)/n (this). */
+static double energy_term(double x, double inverse_n)
 {
-    double decay = exp(-x);
-    double power = decay;
-    double sum = 0.0;
-    size_t terms = exponential_term_count(x);
-    for (size_t n = 1; n <= terms && power > 0.0; ++n) {
-        double inverse_n = 1.0 / (double)n;
-        sum += power * inverse_n * (x * x + inverse_n * (2.0 * x + 2.0 * inverse_n));
-        power *= decay;
-    }
-    return sum;
+    return x * x * x + inverse_n * (3.0 * x * x + inverse_n * (6.0 * x + 6.0 * inverse_n));
+}
+
+/* x^2 + 2x/n + 2/n^2: int_x^inf t^2/(e^t-1) dt = sum_n e^(-nx)/n (this). */
+static double photon_term(double x, double inverse_n)
+{
+    return x * x + inverse_n * (2.0 * x + 2.0 * inverse_n);
 }
 
 static gb_status check_exponent(double x, gb_fraction *fraction)
@@ -103,7 +109,7 @@ gb_status gb_blackbody_fraction(double x, gb_fraction *fraction)
         return status;
     }
     if (x >= SERIES_SWITCH_X) {
-        fraction->below = GB_FIFTEEN_OVER_PI4 * energy_tail_integral(x);
+        fraction->below = GB_FIFTEEN_OVER_PI4 * exponential_series(x, energy_term);
         fraction->above = 1.0 - fraction->below;
     } else {
         /* int_0^x t^3/(e^t-1) dt = x^3/3 - x^4/8 + x^5 sum_k a_k x^(2k-2). */
@@ -123,7 +129,7 @@ gb_status gb_blackbody_photon_fraction(double x, gb_fraction *fraction)
         return status;
     }
     if (x >= SERIES_SWITCH_X) {
-        fraction->below = GB_HALF_INVERSE_ZETA3 * photon_tail_integral(x);
+        fraction->below = GB_HALF_INVERSE_ZETA3 * exponential_series(x, photon_term);
         fraction->above = 1.0 - fraction->below;
     } else {
         /* int_0^x t^2/(e^t-1) dt = x^2/2 - x^3/6 + x^4 sum_k q_k x^(2k-2). */

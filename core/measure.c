@@ -109,7 +109,11 @@ gb_status gb_measure_solve(const gb_band *band, const gb_scene *scene,
 {
     gb_measurement m;
     double emissivity, transmittance, net, check_radiance;
-    gb_status status = gb_measure_terms(band, scene, &m);
+    gb_status status;
+    if (measurement == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = gb_measure_terms(band, scene, &m);
     if (status != GB_OK) {
         return status;
     }

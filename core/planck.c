@@ -18,7 +18,8 @@ struct planck_terms {
     double exponent_times_t; /* x T, in K */
     double prefactor;        /* c1' s^p in the coordinate's radiance unit */
     double log_prefactor;
-    double photon_energy;    /* J */
+    double photon_prefactor; /* the same for photon radiance: c1' s^p / (photon energy) */
+    double log_photon_prefactor;
 };
 
 static gb_status check_position(double position)
@@ -50,7 +51,10 @@ gb_status gb_check_emissivity(double emissivity)
 #define C2_CM_K 1.438776877503933802147                         /* c2 in cm K */
 #define TWO_H_OVER_C2 1.4744994647625415786e-50                 /* 2 h / c^2, J s^3 m^-2 */
 #define H_OVER_K 4.799243073366221248e-11                       /* h / k, K s */
-#define HC_UM 1.9864458571489286e-19                          /* h c in J um */
+/* 2 c in the three coordinates' photon units (c1' divided by the photon energy). */
+#define PHOTON_PER_WAVELENGTH_UM 5.99584916e26 /* 2 c x 1e18, photons s^-1 m^-2 sr^-1 um^3 */
+#define PHOTON_PER_WAVENUMBER_CM 5.99584916e14 /* 2 c x 1e6 */
+#define PHOTON_PER_FREQUENCY 2.2253001121072368643e-17 /* 2 / c^2 */
 
 static gb_status planck_terms_at(gb_spectral_coordinate coordinate, double position,
                                  struct planck_terms *terms)
@@ -62,40 +66,57 @@ static gb_status planck_terms_at(gb_spectral_coordinate coordinate, double posit
     switch (coordinate) {
     case GB_WAVELENGTH: {
         double squared = position * position;
+        double log_position = log(position);
         terms->exponent_times_t = GB_C2_UM / position;
         terms->prefactor = GB_C1L_UM / (squared * squared * position);
-        terms->log_prefactor = log(GB_C1L_UM) - 5.0 * log(position);
-        terms->photon_energy = HC_UM / position;
+        terms->log_prefactor = log(GB_C1L_UM) - 5.0 * log_position;
+        terms->photon_prefactor = PHOTON_PER_WAVELENGTH_UM / (squared * squared);
+        terms->log_photon_prefactor = log(PHOTON_PER_WAVELENGTH_UM) - 4.0 * log_position;
         break;
     }
     case GB_WAVENUMBER:
         terms->exponent_times_t = C2_CM_K * position;
         terms->prefactor = C1L_PER_WAVENUMBER_CM * position * position * position;
         terms->log_prefactor = log(C1L_PER_WAVENUMBER_CM) + 3.0 * log(position);
-        terms->photon_energy = HC_UM * position * 1e-4;
+        terms->photon_prefactor = PHOTON_PER_WAVENUMBER_CM * position * position;
+        terms->log_photon_prefactor = log(PHOTON_PER_WAVENUMBER_CM) + 2.0 * log(position);
         break;
     case GB_FREQUENCY:
         terms->exponent_times_t = H_OVER_K * position;
         terms->prefactor = TWO_H_OVER_C2 * position * position * position;
         terms->log_prefactor = log(TWO_H_OVER_C2) + 3.0 * log(position);
-        terms->photon_energy = GB_PLANCK_H * position;
+        terms->photon_prefactor = PHOTON_PER_FREQUENCY * position * position;
+        terms->log_photon_prefactor = log(PHOTON_PER_FREQUENCY) + 2.0 * log(position);
         break;
     default:
         return GB_ERR_INVALID_ARGUMENT;
     }
-    if (!isfinite(terms->exponent_times_t) || !(terms->photon_energy > 0.0)) {
+    if (!isfinite(terms->exponent_times_t) || !(terms->exponent_times_t > 0.0)) {
         return GB_ERR_SPECTRAL_DOMAIN;
     }
     return GB_OK;
 }
 
-/* prefactor / expm1(x), robust at both ends. */
-static double bose_einstein_radiance(const struct planck_terms *terms, double exponent)
+/* ln of prefactor / expm1(x), valid for every x > 0: ln P - x - ln(1 - e^-x). */
+static double log_bose_einstein(double log_prefactor, double exponent)
 {
-    if (exponent <= LOG_FORM_EXPONENT && isnormal(terms->prefactor) && isfinite(terms->prefactor)) {
-        return terms->prefactor / expm1(exponent);
+    return log_prefactor - exponent - log(-expm1(-exponent));
+}
+
+/* prefactor / expm1(x), robust at both ends: in logarithms wherever a direct
+ * evaluation would pass through an overflow, an underflow or a subnormal. */
+static double bose_einstein(double prefactor, double log_prefactor, double exponent)
+{
+    if (exponent <= LOG_FORM_EXPONENT && isnormal(prefactor) && isfinite(prefactor)) {
+        double direct = prefactor / expm1(exponent);
+        if (isnormal(direct)) {
+            return direct;
+        }
     }
-    return exp(terms->log_prefactor - exponent) / -expm1(-exponent);
+    if (isinf(exponent)) {
+        return 0.0;
+    }
+    return exp(log_bose_einstein(log_prefactor, exponent));
 }
 
 static gb_status planck_common(gb_spectral_coordinate coordinate, double position,
@@ -111,7 +132,7 @@ static gb_status planck_common(gb_spectral_coordinate coordinate, double positio
         return status;
     }
     *exponent = terms->exponent_times_t / temperature_k;
-    *radiance = bose_einstein_radiance(terms, *exponent);
+    *radiance = bose_einstein(terms->prefactor, terms->log_prefactor, *exponent);
     return isfinite(*radiance) ? GB_OK : GB_ERR_RESULT_OVERFLOW;
 }
 
@@ -152,7 +173,9 @@ gb_status gb_planck_photon_radiance(gb_spectral_coordinate coordinate, double po
     if (status != GB_OK) {
         return status;
     }
-    photons = emissivity * (blackbody / terms.photon_energy);
+    /* A subnormal radiance may still give a normal photon radiance: divide in logarithms. */
+    photons = emissivity * bose_einstein(terms.photon_prefactor, terms.log_photon_prefactor,
+                                         exponent);
     if (!isfinite(photons)) {
         return GB_ERR_RESULT_OVERFLOW;
     }
@@ -174,7 +197,14 @@ gb_status gb_planck_radiance_derivative(gb_spectral_coordinate coordinate, doubl
         return status;
     }
     /* x / (1 - e^-x) tends to 1 as x -> 0; -expm1(-x) keeps it exact there. */
-    result = blackbody == 0.0 ? 0.0 : blackbody / temperature_k * (exponent / -expm1(-exponent));
+    if (isnormal(blackbody)) {
+        result = blackbody / temperature_k * (exponent / -expm1(-exponent));
+    } else if (isinf(exponent)) {
+        result = 0.0;
+    } else {
+        result = exp(log_bose_einstein(terms.log_prefactor, exponent) +
+                     log(exponent / -expm1(-exponent)) - log(temperature_k));
+    }
     if (!isfinite(result)) {
         return GB_ERR_RESULT_OVERFLOW;
     }
@@ -239,6 +269,9 @@ gb_status gb_wien_peaks_at(double temperature_k, gb_wien_peaks *peaks)
     result.wavenumber_cm = GB_WIEN_WAVENUMBER_CM_PER_K * temperature_k;
     result.frequency_hz = GB_WIEN_FREQUENCY_HZ_PER_K * temperature_k;
     result.photon_wavelength_um = GB_WIEN_PHOTON_WAVELENGTH_UM_K / temperature_k;
+    if (!isfinite(result.photon_wavelength_um)) {
+        return GB_ERR_RESULT_OVERFLOW; /* a body so cold its peak lies beyond any double */
+    }
     status = gb_planck_radiance(GB_WAVELENGTH, result.wavelength_um, temperature_k, 1.0,
                                 &result.radiance_at_peak);
     if (status != GB_OK) {

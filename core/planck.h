@@ -18,10 +18,16 @@
  * that results that underflow come out as a correct 0 rather than NaN.
  *
  * Domain: temperature in (0, 1e9] K; position > 0 and finite; emissivity in
- * (0, 1].  Accuracy: <= 4e-15 relative where the result is a normal double
- * and x <= 700 (measured against 30-digit mpmath, tests/unit/test_planck.c);
- * <= 2e-13 relative for 700 < x < 745 (the exponent's own rounding); exactly
- * 0 beyond.  A result too large for a double gives GB_ERR_RESULT_OVERFLOW.
+ * (0, 1].  Accuracy where the result is a normal double: relative error
+ * <= (x + |ln L| + 4) 2.2e-16 -- the rounding of x is magnified by x through
+ * e^-x, and where the logarithmic form is used (x > 700, or c1' s^p beyond a
+ * normal double, e.g. wavelengths beyond 1e61 um) the rounding of ln L is
+ * magnified the same way; for everyday inputs this is a few 1e-15
+ * (measured against 50-digit mpmath, tests/unit/test_planck.c);
+ * subnormal results carry fewer digits; results below the smallest double
+ * are 0.  Photon radiance and dL/dT are worked in logarithms where the
+ * radiance itself is subnormal, so they stay accurate while they are normal.
+ * A result too large for a double gives GB_ERR_RESULT_OVERFLOW.
  */
 #ifndef GREYBODY_PLANCK_H
 #define GREYBODY_PLANCK_H

@@ -7,6 +7,7 @@
 
 #define GAUSS_HALF_POINTS 10
 #define LARGEST_EXPONENT 745.0  /* e^-745 is below the smallest subnormal double */
+#define SUBNORMAL_SAFE_EXPONENT 700.0
 #define MAX_PIECE_RATIO 1.5
 #define MAX_PIECE_EXPONENT_SPAN 6.0
 #define MAX_PIECES 4096
@@ -33,7 +34,11 @@ static void accumulate_node(double wavelength_um, double weight, double temperat
     double decay = exp(-exponent);
     double one_minus_decay = -expm1(-exponent);
     double squared = wavelength_um * wavelength_um;
-    double radiance = GB_C1L_UM / (squared * squared * wavelength_um) * (decay / one_minus_decay);
+    double radiance =
+        exponent <= SUBNORMAL_SAFE_EXPONENT
+            ? GB_C1L_UM / (squared * squared * wavelength_um) * (decay / one_minus_decay)
+            /* e^-x near the subnormal range: keep the digits by working in logarithms */
+            : exp(log(GB_C1L_UM) - 5.0 * log(wavelength_um) - exponent - log(one_minus_decay));
     double weighted = weight * radiance;
     sums->radiance += weighted;
     sums->derivative += weighted * exponent / (temperature_k * one_minus_decay);

@@ -4,7 +4,7 @@
 set -eu
 
 packages="build-essential pkg-config libmicrohttpd-dev libjansson-dev libcurl4-openssl-dev
-libcmocka-dev python3 python3-mpmath python3-numpy python3-scipy curl ca-certificates"
+libcmocka-dev python3 python3-mpmath python3-numpy python3-scipy python3-yaml curl ca-certificates"
 [ -n "${GREYBODY_EXTRA_PACKAGES:-}" ] && packages="$packages $GREYBODY_EXTRA_PACKAGES"
 
 missing=""

@@ -30,6 +30,16 @@ static const struct {
     [GB_ERR_NET_SIGNAL_NOT_POSITIVE] = {422, "Net surface signal not positive"},
     [GB_ERR_RESULT_OVERFLOW] = {422, "Result overflow"},
     [GB_ERR_NO_CONVERGENCE] = {500, "Solver did not converge"},
+    [GB_ERR_EMISSIVITY_UNDETERMINED] = {422, "Emissivity cannot be determined"},
+    [GB_ERR_RATIO_UNREACHABLE] = {422, "Signal ratio unreachable"},
+    [GB_ERR_DRAW_COUNT] = {422, "Draw count out of range"},
+    [GB_ERR_DISTRIBUTION_UNKNOWN] = {400, "Unknown distribution"},
+    [GB_ERR_CALIBRATION_TOO_FEW_POINTS] = {422, "Too few calibration points"},
+    [GB_ERR_CALIBRATION_DEGENERATE] = {422, "Calibration points cannot determine the model"},
+    [GB_ERR_CALIBRATION_NOT_MONOTONIC] = {422, "Signal does not rise with temperature"},
+    [GB_ERR_CALIBRATION_NO_FIT] = {422, "Calibration fit failed"},
+    [GB_ERR_UNCERTAINTY_PARTIAL] = {422, "Uncertainties given for some points only"},
+    [GB_ERR_SIGNAL_OUT_OF_RANGE] = {422, "Signal out of calibrated range"},
 };
 
 /* The server's own problems. */

@@ -64,13 +64,20 @@ $(BUILD)/tests/integration/%: tests/integration/%.c $(CORE_LIB) $(TEST_SUPPORT_O
 deps:
 	@sh tools/deps.sh
 
+# deps plus the tools only tests need (clang, valgrind, openssl).
+deps-test:
+	@sh tools/deps.sh --test
+
 run: deps all
 	@echo "greybody: serving on http://$(LISTEN)/  (Ctrl-C stops)"
 	exec $(SERVER_BIN) --listen $(LISTEN)
 
-test: deps
+# Every suite `make test` runs; other makefile sections append theirs (TEST_SUITES += ...).
+TEST_SUITES := test-unit test-reference test-integration
+
+test: deps-test
 	@$(MAKE) --no-print-directory all $(UNIT_BIN) $(INTEG_BIN)
-	@$(MAKE) --no-print-directory test-unit test-reference test-integration
+	@bash tools/test-all.sh $(BUILD)/test.log $(TEST_SUITES)
 
 test-unit: $(UNIT_BIN)
 	@sh tools/run-tests.sh unit $(UNIT_BIN)

@@ -5,6 +5,11 @@ set -eu
 
 packages="build-essential pkg-config libmicrohttpd-dev libjansson-dev libcurl4-openssl-dev
 libcmocka-dev python3 python3-mpmath python3-numpy python3-scipy python3-yaml curl ca-certificates"
+# Tools only the tests need (`tools/deps.sh --test`, as `make test` runs it); `make run` stays light.
+# clang + compiler-rt: libFuzzer harnesses; valgrind: memcheck of the server; openssl: throw-away
+# TLS certificates.
+test_packages="clang libclang-rt-14-dev valgrind openssl"
+[ "${1:-}" = "--test" ] && packages="$packages $test_packages"
 [ -n "${GREYBODY_EXTRA_PACKAGES:-}" ] && packages="$packages $GREYBODY_EXTRA_PACKAGES"
 
 missing=""

@@ -21,99 +21,13 @@
 
 #include <cmocka.h>
 
+#include "vector_table.h"
+
 #include "emissivity.h"
 
-/*
- * Reading tests/reference/vectors/<file>: a header of column names, then one
- * tab-separated row per case.  Tests run from the repository root.  A copy in
- * each workflow test until tests/support offers a shared TSV reader.
- */
-#define VECTOR_DIRECTORY "tests/reference/vectors/"
-#define MAX_ROWS 1024
-#define MAX_COLUMNS 32
-
-typedef struct workflow_table {
-    char *text;
-    size_t row_count, column_count;
-    char *cell[MAX_ROWS + 1][MAX_COLUMNS]; /* row 0: the header */
-} workflow_table;
-
-static void workflow_table_load(workflow_table *table, const char *file_name)
+static gb_status workflow_status(const vector_table *table, size_t row, const char *column)
 {
-    char path[256], *line, *rest;
-    FILE *stream;
-    long size;
-    snprintf(path, sizeof path, "%s%s", VECTOR_DIRECTORY, file_name);
-    stream = fopen(path, "rb");
-    if (stream == NULL) {
-        fail_msg("cannot open %s (run the tests from the repository root)", path);
-    }
-    assert_int_equal(fseek(stream, 0, SEEK_END), 0);
-    size = ftell(stream);
-    assert_true(size > 0);
-    rewind(stream);
-    table->text = malloc((size_t)size + 1);
-    assert_non_null(table->text);
-    assert_int_equal(fread(table->text, 1, (size_t)size, stream), (size_t)size);
-    fclose(stream);
-    table->text[size] = '\0';
-    table->row_count = table->column_count = 0;
-    for (line = strtok_r(table->text, "\n", &rest); line != NULL;
-         line = strtok_r(NULL, "\n", &rest)) {
-        size_t column = 0;
-        char *tab;
-        assert_true(table->row_count <= MAX_ROWS);
-        for (char *cell = line;; cell = tab + 1) {
-            assert_true(column < MAX_COLUMNS);
-            table->cell[table->row_count][column++] = cell;
-            tab = strchr(cell, '\t');
-            if (tab == NULL) {
-                break;
-            }
-            *tab = '\0';
-        }
-        if (table->row_count == 0) {
-            table->column_count = column;
-        }
-        assert_int_equal(column, table->column_count);
-        table->row_count++;
-    }
-    assert_true(table->row_count > 1);
-    table->row_count--; /* less the header */
-}
-
-static void workflow_table_free(workflow_table *table)
-{
-    free(table->text);
-    table->text = NULL;
-}
-
-static const char *workflow_text(const workflow_table *table, size_t row, const char *column)
-{
-    for (size_t c = 0; c < table->column_count; ++c) {
-        if (strcmp(table->cell[0][c], column) == 0) {
-            return table->cell[row + 1][c];
-        }
-    }
-    fail_msg("no column %s in the vectors", column);
-    return "";
-}
-
-/* A number cell; "nan" marks a value mpmath does not define. */
-static double workflow_number(const workflow_table *table, size_t row, const char *column)
-{
-    const char *text = workflow_text(table, row, column);
-    char *end;
-    double value = strtod(text, &end);
-    if (end == text || *end != '\0') {
-        fail_msg("column %s of row %zu is not a number: %s", column, row, text);
-    }
-    return value;
-}
-
-static gb_status workflow_status(const workflow_table *table, size_t row, const char *column)
-{
-    const char *text = workflow_text(table, row, column);
+    const char *text = vector_table_text(table, row, column);
     if (strcmp(text, "GB_ERR_EMISSIVITY_DOMAIN") == 0) {
         return GB_ERR_EMISSIVITY_DOMAIN;
     }
@@ -159,24 +73,24 @@ static gb_band band_named(const char *text)
     return flat_band(GB_BAND_TOTAL, 0.0, 0.0);
 }
 
-static gb_term term_named(const workflow_table *table, size_t row, const char *column,
+static gb_term term_named(const vector_table *table, size_t row, const char *column,
                           const char *kind_column)
 {
     gb_term term;
-    term.kind = strcmp(workflow_text(table, row, kind_column), "radiance") == 0
+    term.kind = strcmp(vector_table_text(table, row, kind_column), "radiance") == 0
                     ? GB_TERM_RADIANCE
                     : GB_TERM_TEMPERATURE;
-    term.value = workflow_number(table, row, column);
+    term.value = vector_table_number(table, row, column);
     return term;
 }
 
-static gb_scene scene_of_row(const workflow_table *table, size_t row)
+static gb_scene scene_of_row(const vector_table *table, size_t row)
 {
     gb_scene scene;
     scene.signal = term_named(table, row, "signal", "signal_kind");
     scene.emissivity = 1.0; /* not used: the unknown */
     scene.reflected = term_named(table, row, "reflected", "reflected_kind");
-    scene.transmittance = workflow_number(table, row, "transmittance");
+    scene.transmittance = vector_table_number(table, row, "transmittance");
     scene.atmosphere = term_named(table, row, "atmosphere", "atmosphere_kind");
     return scene;
 }
@@ -201,12 +115,12 @@ typedef struct emissivity_worst {
     double emissivity, round_trip, partial;
 } emissivity_worst;
 
-static int partial_failures(const workflow_table *table, size_t r,
+static int partial_failures(const vector_table *table, size_t r,
                             const gb_emissivity_estimate *estimate, double *worst)
 {
     int failures = 0;
     for (int i = 0; i < GB_EMISSIVITY_INPUT_COUNT; ++i) {
-        double expected = workflow_number(table, r, partial_column[i]);
+        double expected = vector_table_number(table, r, partial_column[i]);
         double got = estimate->partial[i], error;
         if (isnan(expected)) { /* tau = 1 and no atmosphere temperature: d eps/dtau unknowable */
             failures += estimate->defined[i] != 0;
@@ -218,7 +132,7 @@ static int partial_failures(const workflow_table *table, size_t r,
             continue;
         }
         print_message("emissivity: %s: %s = %.17g (defined %d), mpmath %.17g\n",
-                      workflow_text(table, r, "case"), partial_column[i], got,
+                      vector_table_text(table, r, "case"), partial_column[i], got,
                       estimate->defined[i], expected);
         failures++;
     }
@@ -226,19 +140,19 @@ static int partial_failures(const workflow_table *table, size_t r,
 }
 
 /* One row: status, eps, the round trip where the row built its signal, the partials. */
-static int row_failures(const workflow_table *table, size_t r, emissivity_worst *worst)
+static int row_failures(const vector_table *table, size_t r, emissivity_worst *worst)
 {
-    const char *name = workflow_text(table, r, "case");
-    gb_band band = band_named(workflow_text(table, r, "band"));
+    const char *name = vector_table_text(table, r, "case");
+    gb_band band = band_named(vector_table_text(table, r, "band"));
     gb_scene scene = scene_of_row(table, r);
     gb_emissivity_estimate estimate;
-    double expected = workflow_number(table, r, "emissivity");
-    double generating = workflow_number(table, r, "generating_emissivity");
+    double expected = vector_table_number(table, r, "emissivity");
+    double generating = vector_table_number(table, r, "generating_emissivity");
     gb_status status = gb_emissivity_from_reference(
-        &band, &scene, workflow_number(table, r, "surface_temperature_k"), &estimate);
+        &band, &scene, vector_table_number(table, r, "surface_temperature_k"), &estimate);
     if (status != workflow_status(table, r, "status")) {
         print_message("emissivity: %s: status %s, mpmath %s\n", name, gb_status_name(status),
-                      workflow_text(table, r, "status"));
+                      vector_table_text(table, r, "status"));
         return 1;
     }
     if (status != GB_OK) {
@@ -259,18 +173,18 @@ static int row_failures(const workflow_table *table, size_t r, emissivity_worst 
 
 static void test_rows_against_mpmath(void **state)
 {
-    workflow_table table;
+    vector_table *table;
     emissivity_worst worst = {0.0, 0.0, 0.0};
     int failures = 0;
     (void)state;
-    workflow_table_load(&table, "workflows_emissivity.tsv");
-    for (size_t r = 0; r < table.row_count; ++r) {
-        failures += row_failures(&table, r, &worst);
+    table = vector_table_load("workflows_emissivity.tsv");
+    for (size_t r = 0; r < vector_table_rows(table); ++r) {
+        failures += row_failures(table, r, &worst);
     }
     print_message("emissivity: %zu rows, %d failed checks; worst of the rest: |d eps| %.3g, "
                   "round trip |d eps| %.3g, partials %.3g relative\n",
-                  table.row_count, failures, worst.emissivity, worst.round_trip, worst.partial);
-    workflow_table_free(&table);
+                  vector_table_rows(table), failures, worst.emissivity, worst.round_trip, worst.partial);
+    vector_table_free(table);
     assert_int_equal(failures, 0);
 }
 

@@ -22,100 +22,14 @@
 
 #include <cmocka.h>
 
+#include "vector_table.h"
+
 #include "montecarlo.h"
 
-/*
- * Reading tests/reference/vectors/<file>: a header of column names, then one
- * tab-separated row per case.  Tests run from the repository root.  A copy in
- * each workflow test until tests/support offers a shared TSV reader.
- */
-#define VECTOR_DIRECTORY "tests/reference/vectors/"
-#define MAX_ROWS 1024
-#define MAX_COLUMNS 32
-
-typedef struct workflow_table {
-    char *text;
-    size_t row_count, column_count;
-    char *cell[MAX_ROWS + 1][MAX_COLUMNS]; /* row 0: the header */
-} workflow_table;
-
-static void workflow_table_load(workflow_table *table, const char *file_name)
+static size_t workflow_row(const vector_table *table, const char *column, const char *value)
 {
-    char path[256], *line, *rest;
-    FILE *stream;
-    long size;
-    snprintf(path, sizeof path, "%s%s", VECTOR_DIRECTORY, file_name);
-    stream = fopen(path, "rb");
-    if (stream == NULL) {
-        fail_msg("cannot open %s (run the tests from the repository root)", path);
-    }
-    assert_int_equal(fseek(stream, 0, SEEK_END), 0);
-    size = ftell(stream);
-    assert_true(size > 0);
-    rewind(stream);
-    table->text = malloc((size_t)size + 1);
-    assert_non_null(table->text);
-    assert_int_equal(fread(table->text, 1, (size_t)size, stream), (size_t)size);
-    fclose(stream);
-    table->text[size] = '\0';
-    table->row_count = table->column_count = 0;
-    for (line = strtok_r(table->text, "\n", &rest); line != NULL;
-         line = strtok_r(NULL, "\n", &rest)) {
-        size_t column = 0;
-        char *tab;
-        assert_true(table->row_count <= MAX_ROWS);
-        for (char *cell = line;; cell = tab + 1) {
-            assert_true(column < MAX_COLUMNS);
-            table->cell[table->row_count][column++] = cell;
-            tab = strchr(cell, '\t');
-            if (tab == NULL) {
-                break;
-            }
-            *tab = '\0';
-        }
-        if (table->row_count == 0) {
-            table->column_count = column;
-        }
-        assert_int_equal(column, table->column_count);
-        table->row_count++;
-    }
-    assert_true(table->row_count > 1);
-    table->row_count--; /* less the header */
-}
-
-static void workflow_table_free(workflow_table *table)
-{
-    free(table->text);
-    table->text = NULL;
-}
-
-static const char *workflow_text(const workflow_table *table, size_t row, const char *column)
-{
-    for (size_t c = 0; c < table->column_count; ++c) {
-        if (strcmp(table->cell[0][c], column) == 0) {
-            return table->cell[row + 1][c];
-        }
-    }
-    fail_msg("no column %s in the vectors", column);
-    return "";
-}
-
-/* A number cell; "nan" marks a value mpmath does not define. */
-static double workflow_number(const workflow_table *table, size_t row, const char *column)
-{
-    const char *text = workflow_text(table, row, column);
-    char *end;
-    double value = strtod(text, &end);
-    if (end == text || *end != '\0') {
-        fail_msg("column %s of row %zu is not a number: %s", column, row, text);
-    }
-    return value;
-}
-
-static size_t workflow_row(const workflow_table *table, const char *column, const char *value)
-{
-    for (size_t r = 0; r < table->row_count; ++r) {
-        if (strcmp(workflow_text(table, r, column), value) == 0) {
+    for (size_t r = 0; r < vector_table_rows(table); ++r) {
+        if (strcmp(vector_table_text(table, r, column), value) == 0) {
             return r;
         }
     }
@@ -176,24 +90,24 @@ static gb_distribution law_named(const char *text)
 }
 
 /* The row of `case_name` (every row is an 8-14 um scene with temperature terms). */
-static mc_case case_of_row(const workflow_table *table, const char *case_name)
+static mc_case case_of_row(const vector_table *table, const char *case_name)
 {
     mc_case c = example_a();
     size_t r = workflow_row(table, "case", case_name);
-    assert_string_equal(workflow_text(table, r, "band"), "wavelength:8:14");
-    c.scene.signal.value = workflow_number(table, r, "signal");
-    c.scene.emissivity = workflow_number(table, r, "emissivity");
-    c.scene.reflected.value = workflow_number(table, r, "reflected");
-    c.scene.transmittance = workflow_number(table, r, "transmittance");
-    c.scene.atmosphere.value = workflow_number(table, r, "atmosphere");
-    c.draws = (size_t)workflow_number(table, r, "draws");
+    assert_string_equal(vector_table_text(table, r, "band"), "wavelength:8:14");
+    c.scene.signal.value = vector_table_number(table, r, "signal");
+    c.scene.emissivity = vector_table_number(table, r, "emissivity");
+    c.scene.reflected.value = vector_table_number(table, r, "reflected");
+    c.scene.transmittance = vector_table_number(table, r, "transmittance");
+    c.scene.atmosphere.value = vector_table_number(table, r, "atmosphere");
+    c.draws = (size_t)vector_table_number(table, r, "draws");
     assert_true(c.draws <= DRAWS);
     for (int i = 0; i < GB_INPUT_COUNT; ++i) {
         char column[64];
         snprintf(column, sizeof column, "%s_law", input_name[i]);
-        c.input.distribution[i] = law_named(workflow_text(table, r, column));
+        c.input.distribution[i] = law_named(vector_table_text(table, r, column));
         snprintf(column, sizeof column, "%s_u", input_name[i]);
-        c.input.standard_uncertainty[i] = workflow_number(table, r, column);
+        c.input.standard_uncertainty[i] = vector_table_number(table, r, column);
     }
     return c;
 }
@@ -223,18 +137,18 @@ static void print_result(const char *name, const gb_monte_carlo_result *result, 
 /* Near-linear: worked example A, u(eps) = 0.02, u(T_r) = 2 K, u(T_app) = 0.5 K, all normal. */
 static void test_near_linear_case_reproduces_gum(void **state)
 {
-    workflow_table table;
+    vector_table *table;
     mc_case c;
     gb_monte_carlo_result result;
     double gum, half_width, centre;
     size_t r;
     (void)state;
-    workflow_table_load(&table, "workflows_montecarlo.tsv");
-    c = case_of_row(&table, "gum_example_a");
-    r = workflow_row(&table, "case", "gum_example_a");
-    gum = workflow_number(&table, r, "gum_standard_uncertainty_k");
-    centre = workflow_number(&table, r, "temperature_k");
-    workflow_table_free(&table);
+    table = vector_table_load("workflows_montecarlo.tsv");
+    c = case_of_row(table, "gum_example_a");
+    r = workflow_row(table, "case", "gum_example_a");
+    gum = vector_table_number(table, r, "gum_standard_uncertainty_k");
+    centre = vector_table_number(table, r, "temperature_k");
+    vector_table_free(table);
     /* REFERENCES.md: u_c = 0.614 K for this case (JCGM 100 eq. 10); mpmath agrees to 3 digits. */
     assert_true(fabs(gum - 0.614) < 0.0005);
     result = run(&c, SEED);
@@ -257,30 +171,30 @@ static void test_near_linear_case_reproduces_gum(void **state)
 static void check_against_exact_law(const char *case_name, gb_monte_carlo_result *out,
                                     double *gum_out)
 {
-    workflow_table table;
+    vector_table *table;
     mc_case c;
     size_t r;
     double sd_min, sd_max;
-    workflow_table_load(&table, "workflows_montecarlo.tsv");
-    c = case_of_row(&table, case_name);
-    r = workflow_row(&table, "case", case_name);
+    table = vector_table_load("workflows_montecarlo.tsv");
+    c = case_of_row(table, case_name);
+    r = workflow_row(table, "case", case_name);
     *out = run(&c, SEED);
-    *gum_out = workflow_number(&table, r, "gum_standard_uncertainty_k");
+    *gum_out = vector_table_number(table, r, "gum_standard_uncertainty_k");
     print_result(case_name, out, *gum_out);
     print_message("montecarlo: %s: exact 95 %% [%.6f, %.6f] K, exact sd %s K\n", case_name,
-                  workflow_number(&table, r, "exact_low_k"),
-                  workflow_number(&table, r, "exact_high_k"),
-                  workflow_text(&table, r, "exact_standard_deviation_k"));
-    assert_true(out->coverage_low_k >= workflow_number(&table, r, "low_min_k"));
-    assert_true(out->coverage_low_k <= workflow_number(&table, r, "low_max_k"));
-    assert_true(out->coverage_high_k >= workflow_number(&table, r, "high_min_k"));
-    assert_true(out->coverage_high_k <= workflow_number(&table, r, "high_max_k"));
-    sd_min = workflow_number(&table, r, "standard_deviation_min_k");
-    sd_max = workflow_number(&table, r, "standard_deviation_max_k");
+                  vector_table_number(table, r, "exact_low_k"),
+                  vector_table_number(table, r, "exact_high_k"),
+                  vector_table_text(table, r, "exact_standard_deviation_k"));
+    assert_true(out->coverage_low_k >= vector_table_number(table, r, "low_min_k"));
+    assert_true(out->coverage_low_k <= vector_table_number(table, r, "low_max_k"));
+    assert_true(out->coverage_high_k >= vector_table_number(table, r, "high_min_k"));
+    assert_true(out->coverage_high_k <= vector_table_number(table, r, "high_max_k"));
+    sd_min = vector_table_number(table, r, "standard_deviation_min_k");
+    sd_max = vector_table_number(table, r, "standard_deviation_max_k");
     if (!isnan(sd_min)) {
         assert_true(out->standard_deviation_k >= sd_min && out->standard_deviation_k <= sd_max);
     }
-    workflow_table_free(&table);
+    vector_table_free(table);
 }
 
 /* Rectangular u(eps) = 0.02, i.e. eps uniform on 0.95 -+ 0.0346: sd and interval exact. */

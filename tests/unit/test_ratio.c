@@ -19,99 +19,13 @@
 
 #include <cmocka.h>
 
+#include "vector_table.h"
+
 #include "ratio.h"
 
-/*
- * Reading tests/reference/vectors/<file>: a header of column names, then one
- * tab-separated row per case.  Tests run from the repository root.  A copy in
- * each workflow test until tests/support offers a shared TSV reader.
- */
-#define VECTOR_DIRECTORY "tests/reference/vectors/"
-#define MAX_ROWS 1024
-#define MAX_COLUMNS 32
-
-typedef struct workflow_table {
-    char *text;
-    size_t row_count, column_count;
-    char *cell[MAX_ROWS + 1][MAX_COLUMNS]; /* row 0: the header */
-} workflow_table;
-
-static void workflow_table_load(workflow_table *table, const char *file_name)
+static gb_status workflow_status(const vector_table *table, size_t row, const char *column)
 {
-    char path[256], *line, *rest;
-    FILE *stream;
-    long size;
-    snprintf(path, sizeof path, "%s%s", VECTOR_DIRECTORY, file_name);
-    stream = fopen(path, "rb");
-    if (stream == NULL) {
-        fail_msg("cannot open %s (run the tests from the repository root)", path);
-    }
-    assert_int_equal(fseek(stream, 0, SEEK_END), 0);
-    size = ftell(stream);
-    assert_true(size > 0);
-    rewind(stream);
-    table->text = malloc((size_t)size + 1);
-    assert_non_null(table->text);
-    assert_int_equal(fread(table->text, 1, (size_t)size, stream), (size_t)size);
-    fclose(stream);
-    table->text[size] = '\0';
-    table->row_count = table->column_count = 0;
-    for (line = strtok_r(table->text, "\n", &rest); line != NULL;
-         line = strtok_r(NULL, "\n", &rest)) {
-        size_t column = 0;
-        char *tab;
-        assert_true(table->row_count <= MAX_ROWS);
-        for (char *cell = line;; cell = tab + 1) {
-            assert_true(column < MAX_COLUMNS);
-            table->cell[table->row_count][column++] = cell;
-            tab = strchr(cell, '\t');
-            if (tab == NULL) {
-                break;
-            }
-            *tab = '\0';
-        }
-        if (table->row_count == 0) {
-            table->column_count = column;
-        }
-        assert_int_equal(column, table->column_count);
-        table->row_count++;
-    }
-    assert_true(table->row_count > 1);
-    table->row_count--; /* less the header */
-}
-
-static void workflow_table_free(workflow_table *table)
-{
-    free(table->text);
-    table->text = NULL;
-}
-
-static const char *workflow_text(const workflow_table *table, size_t row, const char *column)
-{
-    for (size_t c = 0; c < table->column_count; ++c) {
-        if (strcmp(table->cell[0][c], column) == 0) {
-            return table->cell[row + 1][c];
-        }
-    }
-    fail_msg("no column %s in the vectors", column);
-    return "";
-}
-
-/* A number cell; "nan" marks a value mpmath does not define. */
-static double workflow_number(const workflow_table *table, size_t row, const char *column)
-{
-    const char *text = workflow_text(table, row, column);
-    char *end;
-    double value = strtod(text, &end);
-    if (end == text || *end != '\0') {
-        fail_msg("column %s of row %zu is not a number: %s", column, row, text);
-    }
-    return value;
-}
-
-static gb_status workflow_status(const workflow_table *table, size_t row, const char *column)
-{
-    const char *text = workflow_text(table, row, column);
+    const char *text = vector_table_text(table, row, column);
     if (strcmp(text, "GB_ERR_RATIO_UNREACHABLE") == 0) {
         return GB_ERR_RATIO_UNREACHABLE;
     }
@@ -179,34 +93,34 @@ static int misses(const char *row, const char *what, double got, double expected
 }
 
 /* The forward model and the inversion of one row; the number of failed checks. */
-static int row_failures(const workflow_table *table, size_t r, ratio_worst *worst)
+static int row_failures(const vector_table *table, size_t r, ratio_worst *worst)
 {
-    const char *name = workflow_text(table, r, "case");
-    gb_channel first = channel_named(workflow_text(table, r, "first"));
-    gb_channel second = channel_named(workflow_text(table, r, "second"));
-    double expected_wien = workflow_number(table, r, "wien_temperature_k");
+    const char *name = vector_table_text(table, r, "case");
+    gb_channel first = channel_named(vector_table_text(table, r, "first"));
+    gb_channel second = channel_named(vector_table_text(table, r, "second"));
+    double expected_wien = vector_table_number(table, r, "wien_temperature_k");
     double ratio = 0.0;
     gb_ratio_result result;
     int failures = 0;
-    gb_status status = gb_ratio_at(&first, &second, workflow_number(table, r, "temperature_k"),
-                                   workflow_number(table, r, "true_emissivity_ratio"), &ratio);
+    gb_status status = gb_ratio_at(&first, &second, vector_table_number(table, r, "temperature_k"),
+                                   vector_table_number(table, r, "true_emissivity_ratio"), &ratio);
     if (status != GB_OK) {
         print_message("ratio: %s: gb_ratio_at gave %s\n", name, gb_status_name(status));
         failures++;
     } else {
-        failures += misses(name, "model ratio", ratio, workflow_number(table, r, "model_ratio"),
+        failures += misses(name, "model ratio", ratio, vector_table_number(table, r, "model_ratio"),
                            RATIO_TOLERANCE, &worst->ratio);
     }
-    status = gb_ratio_temperature(&first, &second, workflow_number(table, r, "signal_ratio"),
-                                  workflow_number(table, r, "emissivity_ratio"), &result);
+    status = gb_ratio_temperature(&first, &second, vector_table_number(table, r, "signal_ratio"),
+                                  vector_table_number(table, r, "emissivity_ratio"), &result);
     if (status != workflow_status(table, r, "status")) {
         print_message("ratio: %s: status %s (T = %.17g K, dT/dr_eps = %.6g K), mpmath %s "
                       "(T = %s K, dT/dr_eps = %s K)\n",
                       name, gb_status_name(status), status == GB_OK ? result.temperature_k : 0.0,
                       status == GB_OK ? result.emissivity_ratio_sensitivity : 0.0,
-                      workflow_text(table, r, "status"),
-                      workflow_text(table, r, "solved_temperature_k"),
-                      workflow_text(table, r, "emissivity_ratio_sensitivity"));
+                      vector_table_text(table, r, "status"),
+                      vector_table_text(table, r, "solved_temperature_k"),
+                      vector_table_text(table, r, "emissivity_ratio_sensitivity"));
         return failures + 1;
     }
     if (status != GB_OK) {
@@ -214,15 +128,15 @@ static int row_failures(const workflow_table *table, size_t r, ratio_worst *wors
     }
     {
         /* ratio.h: |dT| <= 4e-15 / |d lnR/dT| = 4e-15 r_eps |dT/dr_eps| where R barely moves. */
-        double solved = workflow_number(table, r, "solved_temperature_k");
-        double conditioned = LOG_RATIO_ROUNDING * workflow_number(table, r, "emissivity_ratio") *
-                             fabs(workflow_number(table, r, "emissivity_ratio_sensitivity")) /
+        double solved = vector_table_number(table, r, "solved_temperature_k");
+        double conditioned = LOG_RATIO_ROUNDING * vector_table_number(table, r, "emissivity_ratio") *
+                             fabs(vector_table_number(table, r, "emissivity_ratio_sensitivity")) /
                              solved;
         failures += misses(name, "T", result.temperature_k, solved,
                            fmax(TEMPERATURE_TOLERANCE, conditioned), &worst->temperature);
     }
     failures += misses(name, "dT/dr_eps", result.emissivity_ratio_sensitivity,
-                       workflow_number(table, r, "emissivity_ratio_sensitivity"),
+                       vector_table_number(table, r, "emissivity_ratio_sensitivity"),
                        SENSITIVITY_TOLERANCE, &worst->sensitivity);
     /* Bands have no Wien formula: mpmath writes nan there. */
     failures += result.has_wien_temperature != !isnan(expected_wien);
@@ -235,19 +149,19 @@ static int row_failures(const workflow_table *table, size_t r, ratio_worst *wors
 
 static void test_rows_against_mpmath(void **state)
 {
-    workflow_table table;
+    vector_table *table;
     ratio_worst worst = {0.0, 0.0, 0.0, 0.0};
     int failures = 0;
     (void)state;
-    workflow_table_load(&table, "workflows_ratio.tsv");
-    for (size_t r = 0; r < table.row_count; ++r) {
-        failures += row_failures(&table, r, &worst);
+    table = vector_table_load("workflows_ratio.tsv");
+    for (size_t r = 0; r < vector_table_rows(table); ++r) {
+        failures += row_failures(table, r, &worst);
     }
     print_message("ratio: %zu rows, %d failed checks; worst relative error of the rest: "
                   "ratio %.3g, T %.3g, Wien T %.3g, dT/dr_eps %.3g\n",
-                  table.row_count, failures, worst.ratio, worst.temperature, worst.wien,
+                  vector_table_rows(table), failures, worst.ratio, worst.temperature, worst.wien,
                   worst.sensitivity);
-    workflow_table_free(&table);
+    vector_table_free(table);
     assert_int_equal(failures, 0);
 }
 

@@ -18,96 +18,9 @@
 
 #include <cmocka.h>
 
+#include "vector_table.h"
+
 #include "spectrum.h"
-
-/*
- * Reading tests/reference/vectors/<file>: a header of column names, then one
- * tab-separated row per case.  Tests run from the repository root.  A copy in
- * each workflow test until tests/support offers a shared TSV reader.
- */
-#define VECTOR_DIRECTORY "tests/reference/vectors/"
-#define MAX_ROWS 1024
-#define MAX_COLUMNS 32
-
-typedef struct workflow_table {
-    char *text;
-    size_t row_count, column_count;
-    char *cell[MAX_ROWS + 1][MAX_COLUMNS]; /* row 0: the header */
-} workflow_table;
-
-static void workflow_table_load(workflow_table *table, const char *file_name)
-{
-    char path[256], *line, *rest;
-    FILE *stream;
-    long size;
-    snprintf(path, sizeof path, "%s%s", VECTOR_DIRECTORY, file_name);
-    stream = fopen(path, "rb");
-    if (stream == NULL) {
-        fail_msg("cannot open %s (run the tests from the repository root)", path);
-    }
-    assert_int_equal(fseek(stream, 0, SEEK_END), 0);
-    size = ftell(stream);
-    assert_true(size > 0);
-    rewind(stream);
-    table->text = malloc((size_t)size + 1);
-    assert_non_null(table->text);
-    assert_int_equal(fread(table->text, 1, (size_t)size, stream), (size_t)size);
-    fclose(stream);
-    table->text[size] = '\0';
-    table->row_count = table->column_count = 0;
-    for (line = strtok_r(table->text, "\n", &rest); line != NULL;
-         line = strtok_r(NULL, "\n", &rest)) {
-        size_t column = 0;
-        char *tab;
-        assert_true(table->row_count <= MAX_ROWS);
-        for (char *cell = line;; cell = tab + 1) {
-            assert_true(column < MAX_COLUMNS);
-            table->cell[table->row_count][column++] = cell;
-            tab = strchr(cell, '\t');
-            if (tab == NULL) {
-                break;
-            }
-            *tab = '\0';
-        }
-        if (table->row_count == 0) {
-            table->column_count = column;
-        }
-        assert_int_equal(column, table->column_count);
-        table->row_count++;
-    }
-    assert_true(table->row_count > 1);
-    table->row_count--; /* less the header */
-}
-
-static void workflow_table_free(workflow_table *table)
-{
-    free(table->text);
-    table->text = NULL;
-}
-
-static const char *workflow_text(const workflow_table *table, size_t row, const char *column)
-{
-    for (size_t c = 0; c < table->column_count; ++c) {
-        if (strcmp(table->cell[0][c], column) == 0) {
-            return table->cell[row + 1][c];
-        }
-    }
-    fail_msg("no column %s in the vectors", column);
-    return "";
-}
-
-/* A number cell; "nan" marks a value mpmath does not define. */
-static double workflow_number(const workflow_table *table, size_t row, const char *column)
-{
-    const char *text = workflow_text(table, row, column);
-    char *end;
-    double value = strtod(text, &end);
-    if (end == text || *end != '\0') {
-        fail_msg("column %s of row %zu is not a number: %s", column, row, text);
-    }
-    return value;
-}
-
 
 static double grid[GB_SPECTRUM_MAX_POINTS + 1];
 
@@ -138,28 +51,28 @@ static double claimed_ulps(gb_grid_spacing spacing, double lower, double upper)
  * the claimed accuracy (1 = exactly at the claim). */
 static double worst_ulps(gb_grid_spacing wanted)
 {
-    workflow_table table;
+    vector_table *table;
     double worst = 0.0;
     size_t over_claim = 0, worst_row = 0, rows = 0;
-    workflow_table_load(&table, "workflows_spectrum.tsv");
-    for (size_t r = 0; r < table.row_count; ++r) {
+    table = vector_table_load("workflows_spectrum.tsv");
+    for (size_t r = 0; r < vector_table_rows(table); ++r) {
         double error;
         /* A quotient upper/lower beyond a double has its own test, below. */
-        if (spacing_named(workflow_text(&table, r, "spacing")) != wanted ||
-            !isfinite(workflow_number(&table, r, "upper") / workflow_number(&table, r, "lower"))) {
+        if (spacing_named(vector_table_text(table, r, "spacing")) != wanted ||
+            !isfinite(vector_table_number(table, r, "upper") / vector_table_number(table, r, "lower"))) {
             continue;
         }
         rows++;
-        assert_int_equal(gb_spectral_grid(workflow_number(&table, r, "lower"),
-                                          workflow_number(&table, r, "upper"),
-                                          (size_t)workflow_number(&table, r, "count"), wanted,
+        assert_int_equal(gb_spectral_grid(vector_table_number(table, r, "lower"),
+                                          vector_table_number(table, r, "upper"),
+                                          (size_t)vector_table_number(table, r, "count"), wanted,
                                           grid),
                          GB_OK);
-        error = ulps_from_exact(grid[(size_t)workflow_number(&table, r, "index")],
-                                workflow_number(&table, r, "nearest"),
-                                workflow_number(&table, r, "rest_ulp"));
-        error /= claimed_ulps(wanted, workflow_number(&table, r, "lower"),
-                              workflow_number(&table, r, "upper"));
+        error = ulps_from_exact(grid[(size_t)vector_table_number(table, r, "index")],
+                                vector_table_number(table, r, "nearest"),
+                                vector_table_number(table, r, "rest_ulp"));
+        error /= claimed_ulps(wanted, vector_table_number(table, r, "lower"),
+                              vector_table_number(table, r, "upper"));
         over_claim += error > 1.0;
         if (!(error <= worst)) {
             worst = error;
@@ -169,11 +82,11 @@ static double worst_ulps(gb_grid_spacing wanted)
     print_message("spectrum: %s grids: worst %.3f of the claimed ulps at %s..%s n=%s point %s; "
                   "%zu of %zu points over the claim\n",
                   wanted == GB_GRID_LINEAR ? "linear" : "logarithmic", worst,
-                  workflow_text(&table, worst_row, "lower"),
-                  workflow_text(&table, worst_row, "upper"),
-                  workflow_text(&table, worst_row, "count"),
-                  workflow_text(&table, worst_row, "index"), over_claim, rows);
-    workflow_table_free(&table);
+                  vector_table_text(table, worst_row, "lower"),
+                  vector_table_text(table, worst_row, "upper"),
+                  vector_table_text(table, worst_row, "count"),
+                  vector_table_text(table, worst_row, "index"), over_claim, rows);
+    vector_table_free(table);
     return worst;
 }
 

@@ -102,44 +102,52 @@ static gb_status check_exponent(double x, gb_fraction *fraction)
     return x > 0.0 ? GB_OK : GB_ERR_SPECTRAL_DOMAIN;
 }
 
-gb_status gb_blackbody_fraction(double x, gb_fraction *fraction)
+/*
+ * The two fractions differ only in the power p of t^p / (e^t - 1) (3 for
+ * energy, 2 for photons), their normalisation, exponential-series term and
+ * Bernoulli coefficients.  Small-x head: int_0^x t^p/(e^t-1) dt =
+ * x^p (1/p - x/(2(p+1))) + x^(p+2) sum_k c_k x^(2k-2).
+ */
+struct fraction_kind {
+    int power;
+    double normalisation;
+    double (*term)(double x, double inverse_n);
+    const double *coefficients;
+};
+
+static const struct fraction_kind energy_fraction = {3, GB_FIFTEEN_OVER_PI4, energy_term,
+                                                     energy_power_coefficients};
+static const struct fraction_kind photon_fraction = {2, GB_HALF_INVERSE_ZETA3, photon_term,
+                                                     photon_power_coefficients};
+
+static gb_status fraction_of(const struct fraction_kind *kind, double x, gb_fraction *fraction)
 {
     gb_status status = check_exponent(x, fraction);
     if (status != GB_OK) {
         return status;
     }
     if (x >= SERIES_SWITCH_X) {
-        fraction->below = GB_FIFTEEN_OVER_PI4 * exponential_series(x, energy_term);
+        fraction->below = kind->normalisation * exponential_series(x, kind->term);
         fraction->above = 1.0 - fraction->below;
     } else {
-        /* int_0^x t^3/(e^t-1) dt = x^3/3 - x^4/8 + x^5 sum_k a_k x^(2k-2). */
-        double cube = x * x * x;
-        double head = cube * (1.0 / 3.0 - x / 8.0);
-        double power_sum = cube * x * x * horner_in_square(energy_power_coefficients, x);
-        fraction->above = GB_FIFTEEN_OVER_PI4 * (head + power_sum);
+        double p = (double)kind->power;
+        double x_to_p = kind->power == 3 ? x * x * x : x * x;
+        double head = x_to_p * (1.0 / p - x / (2.0 * (p + 1.0)));
+        double power_sum = x_to_p * x * x * horner_in_square(kind->coefficients, x);
+        fraction->above = kind->normalisation * (head + power_sum);
         fraction->below = 1.0 - fraction->above;
     }
     return GB_OK;
 }
 
+gb_status gb_blackbody_fraction(double x, gb_fraction *fraction)
+{
+    return fraction_of(&energy_fraction, x, fraction);
+}
+
 gb_status gb_blackbody_photon_fraction(double x, gb_fraction *fraction)
 {
-    gb_status status = check_exponent(x, fraction);
-    if (status != GB_OK) {
-        return status;
-    }
-    if (x >= SERIES_SWITCH_X) {
-        fraction->below = GB_HALF_INVERSE_ZETA3 * exponential_series(x, photon_term);
-        fraction->above = 1.0 - fraction->below;
-    } else {
-        /* int_0^x t^2/(e^t-1) dt = x^2/2 - x^3/6 + x^4 sum_k q_k x^(2k-2). */
-        double square = x * x;
-        double head = square * (0.5 - x / 6.0);
-        double power_sum = square * square * horner_in_square(photon_power_coefficients, x);
-        fraction->above = GB_HALF_INVERSE_ZETA3 * (head + power_sum);
-        fraction->below = 1.0 - fraction->above;
-    }
-    return GB_OK;
+    return fraction_of(&photon_fraction, x, fraction);
 }
 
 gb_status gb_blackbody_fraction_at(double wavelength_temperature_um_k, gb_fraction *fraction)

@@ -3,6 +3,7 @@
 #   make run      install what is missing, build, serve on 127.0.0.1:8080
 #   make test     install what is missing, build, run every test
 #   make deps     only install what is missing (Debian 12)
+#   make install  PREFIX=... DESTDIR=...: server, core library, headers, greybody.pc (mk/install.mk)
 
 CC      ?= cc
 BUILD   ?= build
@@ -29,6 +30,8 @@ INTEG_SRC  := $(wildcard tests/integration/test_*.c)
 INTEG_BIN  := $(INTEG_SRC:tests/integration/%.c=$(BUILD)/tests/integration/%)
 TEST_SUPPORT_SRC := $(wildcard tests/support/*.c)
 TEST_SUPPORT_OBJ := $(TEST_SUPPORT_SRC:%.c=$(BUILD)/%.o)
+# An archive, so that each test links only the helpers it uses (and only their libraries).
+TEST_SUPPORT_LIB := $(BUILD)/libtestsupport.a
 
 PYTHON_REF ?= /usr/bin/python3
 LISTEN     ?= 127.0.0.1:8080
@@ -52,13 +55,17 @@ $(CORE_LIB): $(CORE_OBJ)
 $(SERVER_BIN): $(SERVER_OBJ) $(CORE_LIB)
 	$(CC) $(ALL_CFLAGS) $(SERVER_OBJ) $(CORE_LIB) $(SERVER_LDLIBS) -o $@
 
-$(BUILD)/tests/unit/%: tests/unit/%.c $(CORE_LIB) $(TEST_SUPPORT_OBJ)
-	@mkdir -p $(dir $@)
-	$(CC) $(ALL_CFLAGS) -Icore -Itests/support $< $(TEST_SUPPORT_OBJ) $(CORE_LIB) -lcmocka -lm -o $@
+$(TEST_SUPPORT_LIB): $(TEST_SUPPORT_OBJ)
+	rm -f $@
+	ar rcs $@ $^
 
-$(BUILD)/tests/integration/%: tests/integration/%.c $(CORE_LIB) $(TEST_SUPPORT_OBJ) $(SERVER_BIN)
+$(BUILD)/tests/unit/%: tests/unit/%.c $(CORE_LIB) $(TEST_SUPPORT_LIB)
 	@mkdir -p $(dir $@)
-	$(CC) $(ALL_CFLAGS) -Icore -Iserver -Itests/support $< $(TEST_SUPPORT_OBJ) $(SERVER_LIB_OBJ) \
+	$(CC) $(ALL_CFLAGS) -Icore -Itests/support $< $(TEST_SUPPORT_LIB) $(CORE_LIB) -lcmocka -lm -o $@
+
+$(BUILD)/tests/integration/%: tests/integration/%.c $(CORE_LIB) $(TEST_SUPPORT_LIB) $(SERVER_BIN)
+	@mkdir -p $(dir $@)
+	$(CC) $(ALL_CFLAGS) -Icore -Iserver -Itests/support $< $(TEST_SUPPORT_LIB) $(SERVER_LIB_OBJ) \
 	    $(CORE_LIB) -lcmocka -lcurl $(SERVER_LDLIBS) -o $@
 
 deps:
@@ -85,10 +92,15 @@ test-unit: $(UNIT_BIN)
 test-reference:
 	@$(PYTHON_REF) tests/reference/generate.py --check
 	@$(PYTHON_REF) tests/reference/workflows.py --check
+	@$(PYTHON_REF) tests/reference/calibration.py --check
 
 test-integration: $(INTEG_BIN)
 	@$(PYTHON_REF) tests/integration/check_openapi.py
 	@sh tools/run-tests.sh integration $(INTEG_BIN)
+
+include tests/reliability.mk
+include mk/page.mk mk/install.mk tests/deploy.mk
+include mk/bench.mk
 
 clean:
 	rm -rf $(BUILD)

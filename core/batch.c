@@ -17,6 +17,18 @@ static gb_status check_buffers(size_t count, const double *results,
                                                                       : GB_OK;
 }
 
+/*
+ * One position for every element: worked out once.  A position the
+ * preparation refuses is left to the per-element path, which reports it in
+ * the scalar functions' order of checks.
+ */
+static int shared_position(gb_spectral_coordinate coordinate, gb_strided position,
+                           gb_planck_position *prepared)
+{
+    return position.stride == 0 &&
+           gb_planck_prepare(coordinate, position.values[0], prepared) == GB_OK;
+}
+
 /* Stores one element's outcome: its value on success, 0 otherwise. */
 static void store(gb_status status, double value, double *result, gb_status *element_status)
 {
@@ -29,9 +41,19 @@ gb_status gb_batch_planck_radiance(gb_spectral_coordinate coordinate, size_t cou
                                    gb_strided emissivity, double *radiance,
                                    gb_status *element_status)
 {
+    gb_planck_position prepared;
     if (check_buffers(count, radiance, element_status) != GB_OK || !readable(position) ||
         !readable(temperature_k) || !readable(emissivity)) {
         return GB_ERR_INVALID_ARGUMENT;
+    }
+    if (shared_position(coordinate, position, &prepared)) {
+        for (size_t i = 0; i < count; ++i) {
+            double value = 0.0;
+            gb_status status = gb_planck_radiance_prepared(&prepared, element(temperature_k, i),
+                                                           element(emissivity, i), &value);
+            store(status, value, &radiance[i], &element_status[i]);
+        }
+        return GB_OK;
     }
     for (size_t i = 0; i < count; ++i) {
         double value = 0.0;
@@ -48,9 +70,19 @@ gb_status gb_batch_brightness_temperature(gb_spectral_coordinate coordinate, siz
                                           gb_strided emissivity, double *temperature_k,
                                           gb_status *element_status)
 {
+    gb_planck_position prepared;
     if (check_buffers(count, temperature_k, element_status) != GB_OK || !readable(position) ||
         !readable(radiance) || !readable(emissivity)) {
         return GB_ERR_INVALID_ARGUMENT;
+    }
+    if (shared_position(coordinate, position, &prepared)) {
+        for (size_t i = 0; i < count; ++i) {
+            double value = 0.0;
+            gb_status status = gb_brightness_temperature_prepared(
+                &prepared, element(radiance, i), element(emissivity, i), &value);
+            store(status, value, &temperature_k[i], &element_status[i]);
+        }
+        return GB_OK;
     }
     for (size_t i = 0; i < count; ++i) {
         double value = 0.0;

@@ -9,19 +9,6 @@
 /* Above this exponent the radiance is evaluated in logarithms (exp(-x) is near underflow). */
 #define LOG_FORM_EXPONENT 700.0
 
-/*
- * A spectral coordinate reduced to the two numbers Planck's law needs there:
- * the exponent x = h c / (lambda k T) and the prefactor c1' s^p (with its
- * logarithm for the far ends), plus the photon energy for photon radiance.
- */
-struct planck_terms {
-    double exponent_times_t; /* x T, in K */
-    double prefactor;        /* c1' s^p in the coordinate's radiance unit */
-    double log_prefactor;
-    double photon_prefactor; /* the same for photon radiance: c1' s^p / (photon energy) */
-    double log_photon_prefactor;
-};
-
 static gb_status check_position(double position)
 {
     if (!isfinite(position)) {
@@ -56,13 +43,23 @@ gb_status gb_check_emissivity(double emissivity)
 #define PHOTON_PER_WAVENUMBER_CM 5.99584916e14 /* 2 c x 1e6 */
 #define PHOTON_PER_FREQUENCY 2.2253001121072368643e-17 /* 2 / c^2 */
 
-static gb_status planck_terms_at(gb_spectral_coordinate coordinate, double position,
-                                 struct planck_terms *terms)
+/*
+ * A spectral coordinate reduced to the two numbers Planck's law needs there:
+ * the exponent x = h c / (lambda k T) and the prefactor c1' s^p (with its
+ * logarithm for the far ends), plus the photon energy for photon radiance.
+ */
+gb_status gb_planck_prepare(gb_spectral_coordinate coordinate, double position,
+                            gb_planck_position *terms)
 {
-    gb_status status = check_position(position);
+    gb_status status;
+    if (terms == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = check_position(position);
     if (status != GB_OK) {
         return status;
     }
+    terms->coordinate = coordinate;
     switch (coordinate) {
     case GB_WAVELENGTH: {
         double squared = position * position;
@@ -108,7 +105,8 @@ static double log_bose_einstein(double log_prefactor, double exponent)
 static double bose_einstein(double prefactor, double log_prefactor, double exponent)
 {
     if (exponent <= LOG_FORM_EXPONENT && isnormal(prefactor) && isfinite(prefactor)) {
-        double direct = prefactor / expm1(exponent);
+        /* Beyond x = 1, e^x - 1 cancels less than a bit and exp costs half of expm1. */
+        double direct = prefactor / (exponent > 1.0 ? exp(exponent) - 1.0 : expm1(exponent));
         if (isnormal(direct)) {
             return direct;
         }
@@ -120,14 +118,14 @@ static double bose_einstein(double prefactor, double log_prefactor, double expon
 }
 
 static gb_status planck_common(gb_spectral_coordinate coordinate, double position,
-                               double temperature_k, struct planck_terms *terms,
+                               double temperature_k, gb_planck_position *terms,
                                double *radiance, double *exponent)
 {
     gb_status status = gb_check_temperature(temperature_k);
     if (status != GB_OK) {
         return status;
     }
-    status = planck_terms_at(coordinate, position, terms);
+    status = gb_planck_prepare(coordinate, position, terms);
     if (status != GB_OK) {
         return status;
     }
@@ -136,31 +134,57 @@ static gb_status planck_common(gb_spectral_coordinate coordinate, double positio
     return isfinite(*radiance) ? GB_OK : GB_ERR_RESULT_OVERFLOW;
 }
 
-gb_status gb_planck_radiance(gb_spectral_coordinate coordinate, double position,
-                             double temperature_k, double emissivity, double *radiance)
+gb_status gb_planck_radiance_prepared(const gb_planck_position *prepared, double temperature_k,
+                                      double emissivity, double *radiance)
 {
-    struct planck_terms terms;
-    double blackbody, exponent;
+    double blackbody;
     gb_status status;
-    if (radiance == NULL) {
+    if (prepared == NULL || radiance == NULL) {
         return GB_ERR_INVALID_ARGUMENT;
     }
     status = gb_check_emissivity(emissivity);
     if (status == GB_OK) {
-        status = planck_common(coordinate, position, temperature_k, &terms, &blackbody, &exponent);
+        status = gb_check_temperature(temperature_k);
     }
     if (status != GB_OK) {
         return status;
     }
+    blackbody = bose_einstein(prepared->prefactor, prepared->log_prefactor,
+                              prepared->exponent_times_t / temperature_k);
+    if (!isfinite(blackbody)) {
+        return GB_ERR_RESULT_OVERFLOW;
+    }
     *radiance = emissivity * blackbody;
     return GB_OK;
+}
+
+gb_status gb_planck_radiance(gb_spectral_coordinate coordinate, double position,
+                             double temperature_k, double emissivity, double *radiance)
+{
+    gb_planck_position terms;
+    gb_status status;
+    if (radiance == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    /* Checked in the order emissivity, temperature, position, as before preparation existed. */
+    status = gb_check_emissivity(emissivity);
+    if (status == GB_OK) {
+        status = gb_check_temperature(temperature_k);
+    }
+    if (status == GB_OK) {
+        status = gb_planck_prepare(coordinate, position, &terms);
+    }
+    if (status != GB_OK) {
+        return status;
+    }
+    return gb_planck_radiance_prepared(&terms, temperature_k, emissivity, radiance);
 }
 
 gb_status gb_planck_photon_radiance(gb_spectral_coordinate coordinate, double position,
                                     double temperature_k, double emissivity,
                                     double *photon_radiance)
 {
-    struct planck_terms terms;
+    gb_planck_position terms;
     double blackbody, exponent, photons;
     gb_status status;
     if (photon_radiance == NULL) {
@@ -186,7 +210,7 @@ gb_status gb_planck_photon_radiance(gb_spectral_coordinate coordinate, double po
 gb_status gb_planck_radiance_derivative(gb_spectral_coordinate coordinate, double position,
                                         double temperature_k, double *derivative)
 {
-    struct planck_terms terms;
+    gb_planck_position terms;
     double blackbody, exponent, result;
     gb_status status;
     if (derivative == NULL) {
@@ -215,8 +239,7 @@ gb_status gb_planck_radiance_derivative(gb_spectral_coordinate coordinate, doubl
 gb_status gb_brightness_temperature(gb_spectral_coordinate coordinate, double position,
                                     double radiance, double emissivity, double *temperature_k)
 {
-    struct planck_terms terms;
-    double ratio, exponent, temperature;
+    gb_planck_position terms;
     gb_status status;
     if (temperature_k == NULL) {
         return GB_ERR_INVALID_ARGUMENT;
@@ -228,22 +251,41 @@ gb_status gb_brightness_temperature(gb_spectral_coordinate coordinate, double po
     if (status != GB_OK) {
         return status;
     }
-    status = planck_terms_at(coordinate, position, &terms);
+    status = gb_planck_prepare(coordinate, position, &terms);
+    if (status != GB_OK) {
+        return status;
+    }
+    return gb_brightness_temperature_prepared(&terms, radiance, emissivity, temperature_k);
+}
+
+gb_status gb_brightness_temperature_prepared(const gb_planck_position *terms, double radiance,
+                                             double emissivity, double *temperature_k)
+{
+    double ratio, exponent, temperature;
+    gb_status status;
+    if (terms == NULL || temperature_k == NULL) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    if (!isfinite(radiance)) {
+        return GB_ERR_NOT_FINITE;
+    }
+    status = gb_check_emissivity(emissivity);
     if (status != GB_OK) {
         return status;
     }
     if (!(radiance > 0.0)) {
         return GB_ERR_RADIANCE_DOMAIN;
     }
-    ratio = emissivity * terms.prefactor / radiance;
-    if (isnormal(ratio) && isnormal(terms.prefactor) && isfinite(terms.prefactor)) {
-        exponent = log1p(ratio);
+    ratio = emissivity * terms->prefactor / radiance;
+    if (isnormal(ratio) && isnormal(terms->prefactor) && isfinite(terms->prefactor)) {
+        /* From r = 1 up, 1 + r rounds by at most half an ulp of a number >= 2: log is as good. */
+        exponent = ratio >= 1.0 ? log(1.0 + ratio) : log1p(ratio);
     } else {
         /* ln(1 + r) with r = exp(q): q + log1p(exp(-q)), stable for any q. */
-        double log_ratio = log(emissivity) + terms.log_prefactor - log(radiance);
+        double log_ratio = log(emissivity) + terms->log_prefactor - log(radiance);
         exponent = log_ratio > 0.0 ? log_ratio + log1p(exp(-log_ratio)) : log1p(exp(log_ratio));
     }
-    temperature = terms.exponent_times_t / exponent;
+    temperature = terms->exponent_times_t / exponent;
     if (!(temperature <= GB_TEMPERATURE_MAX)) {
         return GB_ERR_RADIANCE_OUT_OF_RANGE;
     }

@@ -67,6 +67,30 @@ gb_status gb_planck_radiance_derivative(gb_spectral_coordinate coordinate, doubl
 gb_status gb_brightness_temperature(gb_spectral_coordinate coordinate, double position,
                                     double radiance, double emissivity, double *temperature_k);
 
+/*
+ * A spectral position worked out once for many temperatures or radiances
+ * (array forms, batch.h and frame.h): the exponent x T and the prefactor
+ * c1' s^p with their logarithms.  The functions above prepare one per call;
+ * the _prepared forms below run the same arithmetic from it, so results and
+ * statuses are identical (position errors are reported by the preparation).
+ */
+typedef struct gb_planck_position {
+    gb_spectral_coordinate coordinate;
+    double exponent_times_t;     /* x T, in K */
+    double prefactor;            /* c1' s^p in the coordinate's radiance unit */
+    double log_prefactor;
+    double photon_prefactor;     /* c1' s^p / (photon energy) */
+    double log_photon_prefactor;
+} gb_planck_position;
+
+gb_status gb_planck_prepare(gb_spectral_coordinate coordinate, double position,
+                            gb_planck_position *prepared);
+gb_status gb_planck_radiance_prepared(const gb_planck_position *prepared, double temperature_k,
+                                      double emissivity, double *radiance);
+gb_status gb_brightness_temperature_prepared(const gb_planck_position *prepared,
+                                             double radiance, double emissivity,
+                                             double *temperature_k);
+
 /* Wien's displacement law: where the blackbody curves of temperature T peak. */
 typedef struct gb_wien_peaks {
     double wavelength_um;        /* peak of L per wavelength: b / T, b = 2897.77... um K */

@@ -47,8 +47,49 @@ static const option options[] = {
                 "origins allowed to call from a browser: comma list, or * (default none)"),
     TEXT_OPTION("--openapi", "GREYBODY_OPENAPI", openapi_path,
                 "the OpenAPI document served at /openapi.json (default\n"
-                "        api-docs/openapi.json in the working directory or beside the binary's\n"
-                "        parent directory)"),
+                "        api-docs/openapi.json in the working directory, beside the binary's\n"
+                "        parent directory, or installed in PREFIX/share/greybody)"),
+    NUM_OPTION("--max-depth", "GREYBODY_MAX_DEPTH", OPT_UNSIGNED, max_depth,
+               "deepest JSON nesting accepted in a request body (default 32, at most 256)"),
+    NUM_OPTION("--max-response-bytes", "GREYBODY_MAX_RESPONSE_BYTES", OPT_SIZE,
+               max_response_bytes,
+               "largest response body; a request asking for more gets 413 (default 256M)"),
+    NUM_OPTION("--max-connections-per-ip", "GREYBODY_MAX_CONNECTIONS_PER_IP", OPT_UNSIGNED,
+               max_connections_per_ip,
+               "simultaneous connections from one client address; 0 = no limit (default 500)"),
+    NUM_OPTION("--connection-memory", "GREYBODY_CONNECTION_MEMORY", OPT_SIZE,
+               connection_memory_bytes,
+               "memory per connection for the request line and headers; larger headers\n"
+               "        get 431 (default 32K)"),
+    NUM_OPTION("--read-timeout", "GREYBODY_READ_TIMEOUT", OPT_UNSIGNED, read_timeout_seconds,
+               "seconds a client has to send a whole request (headers and body), counted\n"
+               "        from the connection or the previous answer; 0 = never (default 60)"),
+    TEXT_OPTION("--auth-token-file", "GREYBODY_AUTH_TOKEN_FILE", auth_token_file,
+                "require \"Authorization: Bearer TOKEN\" with the token read from this file;\n"
+                "        the variable GREYBODY_AUTH_TOKEN may hold the token itself instead\n"
+                "        (default: no authentication)"),
+    TEXT_OPTION("--auth-open-paths", "GREYBODY_AUTH_OPEN_PATHS", auth_open_paths,
+                "comma list of paths served without a token when authentication is on;\n"
+                "        \"\" protects every path (default /healthz,/readyz)"),
+    TEXT_OPTION("--tls-cert", "GREYBODY_TLS_CERT", tls_cert,
+                "serve HTTPS with this PEM certificate (chain) file; needs --tls-key"),
+    TEXT_OPTION("--tls-key", "GREYBODY_TLS_KEY", tls_key,
+                "the PEM private key of --tls-cert (unencrypted)"),
+    TEXT_OPTION("--presets-dir", "GREYBODY_PRESETS_DIR", presets_dir,
+                "folder holding bands.json and materials.json (default shared/ in the working\n"
+                "        directory, beside the binary's parent directory, or installed in\n"
+                "        PREFIX/share/greybody)"),
+    NUM_OPTION("--max-draws", "GREYBODY_MAX_DRAWS", OPT_SIZE, max_draws,
+               "most Monte Carlo draws one /v1/sensitivity request may ask for\n"
+               "        (default 200000, at most 1000000)"),
+    NUM_OPTION("--max-spectrum-points", "GREYBODY_MAX_SPECTRUM_POINTS", OPT_SIZE,
+               max_spectrum_points,
+               "most grid points of one /v1/spectrum request (default 10000, at most 100000)"),
+    NUM_OPTION("--max-spectrum-curves", "GREYBODY_MAX_SPECTRUM_CURVES", OPT_SIZE,
+               max_spectrum_curves,
+               "most temperatures (curves) of one /v1/spectrum request (default 16, at most 256)"),
+    NUM_OPTION("--max-csv-rows", "GREYBODY_MAX_CSV_ROWS", OPT_SIZE, max_csv_rows,
+               "most data rows of one text/csv batch; more get 413 (default 10000)"),
 };
 
 #define OPTION_COUNT (sizeof options / sizeof options[0])
@@ -65,6 +106,16 @@ void gb_config_defaults(gb_config *config)
     long cpus = sysconf(_SC_NPROCESSORS_ONLN);
     config->max_batches = cpus > 0 ? (unsigned)cpus : 2;
     config->drain_seconds = 10;
+    config->max_depth = 32;
+    config->max_response_bytes = (size_t)256 * 1024 * 1024;
+    config->max_connections_per_ip = 500;
+    config->connection_memory_bytes = (size_t)32 * 1024;
+    config->read_timeout_seconds = 60;
+    snprintf(config->auth_open_paths, sizeof config->auth_open_paths, "%s", "/healthz,/readyz");
+    config->max_draws = 200000;
+    config->max_spectrum_points = 10000;
+    config->max_spectrum_curves = 16;
+    config->max_csv_rows = 10000;
 }
 
 void gb_config_usage(FILE *out)
@@ -177,6 +228,44 @@ static bool check(const gb_config *config, FILE *err)
     }
     if (config->threads > 1024) {
         fprintf(err, "greybodyd: --threads must be at most 1024\n");
+        return false;
+    }
+    if (config->max_depth < 2 || config->max_depth > GB_CONFIG_MAX_DEPTH_CEILING) {
+        fprintf(err, "greybodyd: --max-depth must be 2 to %d\n", GB_CONFIG_MAX_DEPTH_CEILING);
+        return false;
+    }
+    if (config->max_response_bytes < 4096) {
+        fprintf(err, "greybodyd: --max-response-bytes must be at least 4096 (problem documents "
+                     "must fit)\n");
+        return false;
+    }
+    if (config->connection_memory_bytes < 4096) {
+        fprintf(err, "greybodyd: --connection-memory must be at least 4096\n");
+        return false;
+    }
+    if ((config->tls_cert[0] == '\0') != (config->tls_key[0] == '\0')) {
+        fprintf(err, "greybodyd: --tls-cert and --tls-key go together: give both or neither\n");
+        return false;
+    }
+    if (config->max_draws < GB_CONFIG_MIN_DRAWS || config->max_draws > GB_CONFIG_MAX_DRAWS) {
+        fprintf(err, "greybodyd: --max-draws must be %d to %d\n", GB_CONFIG_MIN_DRAWS,
+                GB_CONFIG_MAX_DRAWS);
+        return false;
+    }
+    if (config->max_spectrum_points < 2 ||
+        config->max_spectrum_points > GB_CONFIG_MAX_SPECTRUM_POINTS) {
+        fprintf(err, "greybodyd: --max-spectrum-points must be 2 to %d\n",
+                GB_CONFIG_MAX_SPECTRUM_POINTS);
+        return false;
+    }
+    if (config->max_spectrum_curves < 1 ||
+        config->max_spectrum_curves > GB_CONFIG_MAX_SPECTRUM_CURVES) {
+        fprintf(err, "greybodyd: --max-spectrum-curves must be 1 to %d\n",
+                GB_CONFIG_MAX_SPECTRUM_CURVES);
+        return false;
+    }
+    if (config->max_csv_rows < 1) {
+        fprintf(err, "greybodyd: --max-csv-rows must be at least 1\n");
         return false;
     }
     return true;

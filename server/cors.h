@@ -30,7 +30,7 @@ bool gb_cors_parse(gb_cors *cors, const char *list);
 bool gb_cors_allowed(const gb_cors *cors, const char *origin);
 
 #define GB_CORS_MAX_AGE "600"
-#define GB_CORS_ALLOW_HEADERS "Content-Type, Accept"
+#define GB_CORS_ALLOW_HEADERS "Content-Type, Accept, Authorization"
 
 /*
  * Adds the CORS headers for a request from `origin` (may be NULL).

@@ -77,10 +77,10 @@ void gb_handle_openapi(const gb_call *call, gb_reply *reply)
     if (document == NULL) {
         gb_problem problem;
         gb_problem_clear(&problem);
+        /* The file tried is in the start-up log line, not here: paths are internal details. */
         gb_problem_set(&problem, GB_PROBLEM_OPENAPI_UNAVAILABLE, NULL,
-                       "The server could not load its OpenAPI document (%.200s); set --openapi "
-                       "or GREYBODY_OPENAPI.",
-                       gb_openapi_source());
+                       "The server could not load its OpenAPI document; its operator can set "
+                       "--openapi or GREYBODY_OPENAPI.");
         gb_reply_problem(reply, &problem);
         return;
     }

@@ -113,6 +113,42 @@ void gb_jw_object_end(gb_jw *w) { close_container(w, "}"); }
 void gb_jw_array_begin(gb_jw *w) { open_container(w, "["); }
 void gb_jw_array_end(gb_jw *w) { close_container(w, "]"); }
 
+/*
+ * Bytes in the well-formed UTF-8 sequence starting at `s` (RFC 3629: no
+ * overlong forms, no surrogates, nothing above U+10FFFF), 0 if there is none.
+ * Text echoed from requests (field names, values in details) may hold any
+ * bytes, and a fixed-size copy may have cut a character in half.
+ */
+static size_t utf8_sequence_length(const unsigned char *s)
+{
+    unsigned char lead = s[0];
+    size_t length;
+    unsigned char low = 0x80;
+    unsigned char high = 0xBF;
+    if (lead >= 0xC2 && lead <= 0xDF) {
+        length = 2;
+    } else if (lead >= 0xE0 && lead <= 0xEF) {
+        length = 3;
+        low = lead == 0xE0 ? 0xA0 : 0x80;
+        high = lead == 0xED ? 0x9F : 0xBF;
+    } else if (lead >= 0xF0 && lead <= 0xF4) {
+        length = 4;
+        low = lead == 0xF0 ? 0x90 : 0x80;
+        high = lead == 0xF4 ? 0x8F : 0xBF;
+    } else {
+        return 0;
+    }
+    if (s[1] < low || s[1] > high) {
+        return 0;
+    }
+    for (size_t k = 2; k < length; k++) {
+        if (s[k] < 0x80 || s[k] > 0xBF) {
+            return 0;
+        }
+    }
+    return length;
+}
+
 void gb_jw_escape(gb_jw *w, const char *text)
 {
     static const char hex[] = "0123456789abcdef";
@@ -120,6 +156,18 @@ void gb_jw_escape(gb_jw *w, const char *text)
     size_t run = 0;
     for (size_t i = 0;; i++) {
         unsigned char ch = s[i];
+        if (ch >= 0x80) {
+            size_t length = utf8_sequence_length(s + i);
+            if (length > 0) {
+                run += length;
+                i += length - 1;
+                continue;
+            }
+            raw(w, (const char *)s + i - run, run);
+            run = 0;
+            raw(w, "\\ufffd", 6); /* a byte that is not UTF-8: the replacement character */
+            continue;
+        }
         if (ch != '\0' && ch >= 0x20 && ch != '"' && ch != '\\') {
             run++;
             continue;

@@ -3,7 +3,9 @@
  *
  * Writes compact JSON into one growing malloc'd buffer.  Numbers are written
  * with 17 significant digits (exact round trip); a non-finite number is
- * written as null, so no response can ever contain NaN or Infinity.  Commas
+ * written as null, so no response can ever contain NaN or Infinity.  Strings
+ * come out as valid UTF-8 whatever bytes they hold (a byte that is not part
+ * of a well-formed sequence is written as U+FFFD).  Commas
  * are inserted automatically.  On allocation failure the writer latches
  * `failed` and ignores further calls; gb_jw_take() then returns NULL.
  *

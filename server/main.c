@@ -15,6 +15,7 @@
 #include "config.h"
 #include "log.h"
 #include "openapi.h"
+#include "presets.h"
 #include "server.h"
 #include "version.h"
 
@@ -36,6 +37,16 @@ int main(int argc, char **argv)
     signal(SIGPIPE, SIG_IGN);
 
     char error[512];
+    gb_presets *presets = gb_presets_read(config.presets_dir, error, sizeof error);
+    if (presets == NULL) {
+        gb_log_event("error", "presets_invalid", error);
+        return 1;
+    }
+    snprintf(error, sizeof error, "%zu band and %zu material presets from %.400s",
+             gb_presets_band_count(presets), gb_presets_material_count(presets),
+             gb_presets_folder(presets));
+    gb_log_event("info", "presets_loaded", error);
+    gb_presets_install(presets);
     gb_server *server = gb_server_start(&config, error, sizeof error);
     if (server == NULL) {
         gb_log_event("error", "start_failed", error);

@@ -9,6 +9,8 @@
 #include <time.h>
 #include <unistd.h>
 
+#include "datapath.h"
+
 #define DEFAULT_RELATIVE "api-docs/openapi.json"
 #define MAX_DOCUMENT_BYTES (8u * 1024u * 1024u)
 
@@ -61,31 +63,10 @@ static char *read_file(const char *path, size_t *length)
     return data;
 }
 
-/* Candidate paths: the configured one, or the two default places. */
-static size_t candidates(const char *configured, char out[2][PATH_MAX])
+/* Candidate paths: the configured one, or the default places (datapath.h). */
+static size_t candidates(const char *configured, char out[GB_DATA_PATH_CANDIDATES][PATH_MAX])
 {
-    if (configured != NULL && configured[0] != '\0') {
-        snprintf(out[0], PATH_MAX, "%s", configured);
-        return 1;
-    }
-    snprintf(out[0], PATH_MAX, "%s", DEFAULT_RELATIVE);
-    char exe[PATH_MAX];
-    ssize_t n = readlink("/proc/self/exe", exe, sizeof exe - 1);
-    if (n <= 0) {
-        return 1;
-    }
-    exe[n] = '\0';
-    char *slash = strrchr(exe, '/');
-    if (slash == NULL) {
-        return 1;
-    }
-    *slash = '\0'; /* the binary's directory, e.g. /repo/build */
-    slash = strrchr(exe, '/');
-    if (slash != NULL) {
-        *slash = '\0'; /* its parent, e.g. /repo */
-    }
-    snprintf(out[1], PATH_MAX, "%.3800s/%s", exe[0] ? exe : "", DEFAULT_RELATIVE);
-    return 2;
+    return gb_data_path_candidates(configured, DEFAULT_RELATIVE, out);
 }
 
 static bool load_locked(const char *configured)
@@ -94,7 +75,7 @@ static bool load_locked(const char *configured)
         return true;
     }
     last_attempt = time(NULL);
-    char paths[2][PATH_MAX];
+    char paths[GB_DATA_PATH_CANDIDATES][PATH_MAX];
     size_t count = candidates(configured, paths);
     snprintf(source, sizeof source, "%.3000s", paths[0]);
     for (size_t i = 0; i < count; i++) {

@@ -10,6 +10,9 @@
 #include <string.h>
 #include <strings.h>
 
+#include "config.h"
+#include "presets.h"
+
 /* ---------------------------------------------------------------- body ---- */
 
 /*
@@ -17,7 +20,7 @@
  * and, when `stop` is inside the text, the path of object keys leading to that
  * position ("band.wavelength"), which names the field of a parse error such as
  * a number overflowing to infinity.  Returns false when the depth exceeds
- * GB_PARAMS_MAX_DEPTH before `stop`.
+ * `max_depth` (at most GB_CONFIG_MAX_DEPTH_CEILING) before `stop`.
  */
 typedef struct scan_level {
     bool object;
@@ -25,9 +28,13 @@ typedef struct scan_level {
     char key[48];
 } scan_level;
 
-static bool scan_json(const char *text, size_t length, size_t stop, char *path, size_t path_size)
+static bool scan_json(const char *text, size_t length, size_t stop, int max_depth, char *path,
+                      size_t path_size)
 {
-    scan_level levels[GB_PARAMS_MAX_DEPTH + 1];
+    scan_level levels[GB_CONFIG_MAX_DEPTH_CEILING + 1];
+    if (max_depth > GB_CONFIG_MAX_DEPTH_CEILING) {
+        max_depth = GB_CONFIG_MAX_DEPTH_CEILING;
+    }
     int depth = 0;
     bool in_string = false;
     bool escaped = false;
@@ -64,7 +71,7 @@ static bool scan_json(const char *text, size_t length, size_t stop, char *path, 
             break;
         case '{':
         case '[':
-            if (depth >= GB_PARAMS_MAX_DEPTH) {
+            if (depth >= max_depth) {
                 return false;
             }
             levels[depth].object = ch == '{';
@@ -107,22 +114,30 @@ static bool scan_json(const char *text, size_t length, size_t stop, char *path, 
 
 json_t *gb_params_parse_body(const char *body, size_t length, gb_problem *problem)
 {
+    return gb_params_parse_body_within(body, length, GB_PARAMS_MAX_DEPTH, problem);
+}
+
+json_t *gb_params_parse_body_within(const char *body, size_t length, unsigned max_depth,
+                                    gb_problem *problem)
+{
     if (length == 0) {
         gb_problem_set(problem, GB_PROBLEM_MALFORMED_JSON, NULL,
                        "The request body is empty; send a JSON object.");
         return NULL;
     }
-    if (!scan_json(body, length, length, NULL, 0)) {
+    if (!scan_json(body, length, length, (int)max_depth, NULL, 0)) {
         gb_problem_set(problem, GB_PROBLEM_MALFORMED_JSON, NULL,
-                       "JSON nested deeper than %d levels.", GB_PARAMS_MAX_DEPTH);
+                       "JSON nested deeper than %u levels.", max_depth);
         return NULL;
     }
     json_error_t error;
-    json_t *root =
-        json_loadb(body, length, JSON_REJECT_DUPLICATES | JSON_DECODE_INT_AS_REAL, &error);
+    /* DECODE_ANY: a scalar body is valid JSON, just not an object (not_an_object below). */
+    json_t *root = json_loadb(
+        body, length, JSON_REJECT_DUPLICATES | JSON_DECODE_INT_AS_REAL | JSON_DECODE_ANY, &error);
     if (root == NULL) {
         char path[GB_PROBLEM_FIELD_MAX];
-        scan_json(body, length, (size_t)error.position, path, sizeof path);
+        scan_json(body, length, (size_t)error.position, GB_CONFIG_MAX_DEPTH_CEILING, path,
+                  sizeof path);
         switch (json_error_code(&error)) {
         case json_error_numeric_overflow:
             gb_problem_set(problem, GB_PROBLEM_NOT_FINITE, path[0] ? path : NULL,
@@ -157,31 +172,37 @@ typedef struct query_state {
     gb_problem *problem;
 } query_state;
 
+bool gb_params_query_put(json_t *object, const char *key, const char *value,
+                         gb_problem *problem)
+{
+    if (key == NULL) {
+        return true;
+    }
+    if (value == NULL) {
+        gb_problem_set(problem, GB_PROBLEM_INVALID_QUERY, key,
+                       "Query parameter \"%s\" has no value.", key);
+        return false;
+    }
+    if (json_object_get(object, key) != NULL) {
+        gb_problem_set(problem, GB_PROBLEM_INVALID_QUERY, key,
+                       "Query parameter \"%s\" is given more than once.", key);
+        return false;
+    }
+    json_t *text = json_string(value);
+    if (text == NULL || json_object_set_new(object, key, text) != 0) {
+        gb_problem_set(problem, GB_PROBLEM_INVALID_QUERY, NULL,
+                       "A query parameter is not valid UTF-8.");
+        return false;
+    }
+    return true;
+}
+
 static enum MHD_Result query_argument(void *cls, enum MHD_ValueKind kind, const char *key,
                                       const char *value)
 {
     query_state *state = cls;
     (void)kind;
-    if (key == NULL) {
-        return MHD_YES;
-    }
-    if (value == NULL) {
-        gb_problem_set(state->problem, GB_PROBLEM_INVALID_QUERY, key,
-                       "Query parameter \"%s\" has no value.", key);
-        return MHD_NO;
-    }
-    if (json_object_get(state->object, key) != NULL) {
-        gb_problem_set(state->problem, GB_PROBLEM_INVALID_QUERY, key,
-                       "Query parameter \"%s\" is given more than once.", key);
-        return MHD_NO;
-    }
-    json_t *text = json_string(value);
-    if (text == NULL || json_object_set_new(state->object, key, text) != 0) {
-        gb_problem_set(state->problem, GB_PROBLEM_INVALID_QUERY, NULL,
-                       "A query parameter is not valid UTF-8.");
-        return MHD_NO;
-    }
-    return MHD_YES;
+    return gb_params_query_put(state->object, key, value, state->problem) ? MHD_YES : MHD_NO;
 }
 
 json_t *gb_params_from_query(struct MHD_Connection *connection, gb_problem *problem)
@@ -661,12 +682,26 @@ bool gb_params_choice(gb_params *params, const char *name, const char *const *ch
 
 /* ---------------------------------------------------------------- band ---- */
 
+#define BAND_PRESET_PREFIX "preset:"
+
 static void default_band(gb_band *band)
 {
     memset(band, 0, sizeof *band);
     band->kind = GB_BAND_WAVELENGTH;
     band->lower = 8.0;
     band->upper = 14.0;
+}
+
+/* A band of the presets folder (presets.h); an unknown name -> invalid_band naming `field`. */
+static bool band_from_preset(gb_params *params, const char *field, const char *name,
+                             gb_band *band)
+{
+    if (gb_presets_find_band(name, band)) {
+        return true;
+    }
+    return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                          "Unknown band preset \"%.60s\" in \"%s\"; GET /v1/presets lists them.",
+                          name, field);
 }
 
 static bool limits_from_text(gb_params *params, const char *field, const char *text,
@@ -677,6 +712,10 @@ static bool limits_from_text(gb_params *params, const char *field, const char *t
     if (kind == GB_BAND_WAVELENGTH && strcmp(text, "total") == 0) {
         band->kind = GB_BAND_TOTAL;
         return true;
+    }
+    if (kind == GB_BAND_WAVELENGTH &&
+        strncmp(text, BAND_PRESET_PREFIX, sizeof BAND_PRESET_PREFIX - 1) == 0) {
+        return band_from_preset(params, field, text + sizeof BAND_PRESET_PREFIX - 1, band);
     }
     if (!text_number_list(params, field, text, GB_PROBLEM_INVALID_BAND, &values, &count)) {
         return false;
@@ -692,13 +731,14 @@ static bool limits_from_text(gb_params *params, const char *field, const char *t
     return true;
 }
 
-static bool limits_from_json(gb_params *params, const char *field, json_t *value,
-                             gb_band_kind kind, gb_band *band)
+static bool limits_from_json(gb_params *params, const char *field, const char *member,
+                             json_t *value, gb_band_kind kind, gb_band *band)
 {
     if (!json_is_array(value) || json_array_size(value) != 2 ||
         !json_is_number(json_array_get(value, 0)) || !json_is_number(json_array_get(value, 1))) {
-        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, "band",
-                              "\"%s\" must be an array of two numbers, low and high.", field);
+        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                              "\"%s.%s\" must be an array of two numbers, low and high.", field,
+                              member);
     }
     band->kind = kind;
     band->lower = json_number_value(json_array_get(value, 0));
@@ -706,40 +746,47 @@ static bool limits_from_json(gb_params *params, const char *field, json_t *value
     return true;
 }
 
-static bool response_from_json(gb_params *params, json_t *value, gb_band *band)
+static bool response_from_json(gb_params *params, const char *field, json_t *value,
+                               gb_band *band)
 {
     if (!json_is_object(value)) {
-        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, "band",
-                              "\"band.response\" must be an object "
-                              "{\"wavelength\": [...], \"value\": [...]}.");
+        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                              "\"%s.response\" must be an object "
+                              "{\"wavelength\": [...], \"value\": [...]}.",
+                              field);
     }
     const char *key;
     json_t *member;
     json_object_foreach(value, key, member)
     {
         if (strcmp(key, "wavelength") != 0 && strcmp(key, "value") != 0) {
-            char field[GB_PROBLEM_FIELD_MAX];
-            snprintf(field, sizeof field, "band.response.%.60s", key);
-            return gb_params_fail(params, GB_PROBLEM_UNKNOWN_FIELD, field,
-                                  "Unknown field \"%s\".", field);
+            char unknown[GB_PROBLEM_FIELD_MAX];
+            snprintf(unknown, sizeof unknown, "%.20s.response.%.60s", field, key);
+            return gb_params_fail(params, GB_PROBLEM_UNKNOWN_FIELD, unknown,
+                                  "Unknown field \"%s\".", unknown);
         }
     }
     json_t *wavelength = json_object_get(value, "wavelength");
     json_t *response = json_object_get(value, "value");
     if (!json_is_array(wavelength) || !json_is_array(response)) {
-        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, "band",
-                              "\"band.response\" needs arrays \"wavelength\" and \"value\".");
+        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                              "\"%s.response\" needs arrays \"wavelength\" and \"value\".",
+                              field);
     }
     if (json_array_size(wavelength) != json_array_size(response)) {
-        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, "band",
-                              "\"band.response.wavelength\" and \"band.response.value\" must "
-                              "have the same length.");
+        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                              "\"%s.response.wavelength\" and \"%s.response.value\" must have "
+                              "the same length.",
+                              field, field);
     }
+    char wavelength_field[GB_PROBLEM_FIELD_MAX], value_field[GB_PROBLEM_FIELD_MAX];
+    snprintf(wavelength_field, sizeof wavelength_field, "%.20s.response.wavelength", field);
+    snprintf(value_field, sizeof value_field, "%.20s.response.value", field);
     double *lambda = NULL;
     double *r = NULL;
     size_t n = 0;
-    if (!json_number_array(params, "band.response.wavelength", wavelength, &lambda, &n) ||
-        !json_number_array(params, "band.response.value", response, &r, &n)) {
+    if (!json_number_array(params, wavelength_field, wavelength, &lambda, &n) ||
+        !json_number_array(params, value_field, response, &r, &n)) {
         return false;
     }
     band->kind = GB_BAND_RESPONSE;
@@ -749,54 +796,108 @@ static bool response_from_json(gb_params *params, json_t *value, gb_band *band)
     return true;
 }
 
-static bool band_from_json(gb_params *params, json_t *value, gb_band *band)
+static bool band_from_json(gb_params *params, const char *field, json_t *value, gb_band *band)
 {
     if (!json_is_object(value)) {
-        return gb_params_fail(params, GB_PROBLEM_WRONG_TYPE, "band",
-                              "\"band\" must be an object such as {\"wavelength\": [8, 14]}.");
+        return gb_params_fail(params, GB_PROBLEM_WRONG_TYPE, field,
+                              "\"%s\" must be an object such as {\"wavelength\": [8, 14]} or "
+                              "{\"preset\": \"midwave-3-5\"}.",
+                              field);
     }
-    static const char *const kinds[] = {"wavelength", "wavenumber", "response", "total", NULL};
+    static const char *const kinds[] = {"wavelength", "wavenumber", "response", "total",
+                                        "preset", NULL};
     const char *chosen = NULL;
     const char *key;
     json_t *member;
     json_object_foreach(value, key, member)
     {
         if (!name_in(key, kinds)) {
-            char field[GB_PROBLEM_FIELD_MAX];
-            snprintf(field, sizeof field, "band.%.60s", key);
-            return gb_params_fail(params, GB_PROBLEM_UNKNOWN_FIELD, field,
+            char unknown[GB_PROBLEM_FIELD_MAX];
+            snprintf(unknown, sizeof unknown, "%.20s.%.60s", field, key);
+            return gb_params_fail(params, GB_PROBLEM_UNKNOWN_FIELD, unknown,
                                   "Unknown field \"%s\"; a band is one of wavelength, "
-                                  "wavenumber, response or total.",
-                                  field);
+                                  "wavenumber, response, total or preset.",
+                                  unknown);
         }
         if (chosen != NULL) {
-            return gb_params_fail(params, GB_PROBLEM_CONFLICTING_FIELDS, "band",
+            return gb_params_fail(params, GB_PROBLEM_CONFLICTING_FIELDS, field,
                                   "A band is given by only one of \"%s\" and \"%s\".", chosen,
                                   key);
         }
         chosen = key;
     }
     if (chosen == NULL) {
-        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, "band",
-                              "\"band\" is empty; give wavelength, wavenumber, response or "
-                              "total.");
+        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                              "\"%s\" is empty; give wavelength, wavenumber, response, total or "
+                              "preset.",
+                              field);
     }
     member = json_object_get(value, chosen);
     if (strcmp(chosen, "wavelength") == 0) {
-        return limits_from_json(params, "band.wavelength", member, GB_BAND_WAVELENGTH, band);
+        return limits_from_json(params, field, chosen, member, GB_BAND_WAVELENGTH, band);
     }
     if (strcmp(chosen, "wavenumber") == 0) {
-        return limits_from_json(params, "band.wavenumber", member, GB_BAND_WAVENUMBER, band);
+        return limits_from_json(params, field, chosen, member, GB_BAND_WAVENUMBER, band);
     }
     if (strcmp(chosen, "response") == 0) {
-        return response_from_json(params, member, band);
+        return response_from_json(params, field, member, band);
+    }
+    if (strcmp(chosen, "preset") == 0) {
+        if (!json_is_string(member)) {
+            return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                                  "\"%s.preset\" must be the name of a band preset.", field);
+        }
+        return band_from_preset(params, field, json_string_value(member), band);
     }
     if (!json_is_true(member)) {
-        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, "band",
-                              "\"band.total\" must be true.");
+        return gb_params_fail(params, GB_PROBLEM_INVALID_BAND, field,
+                              "\"%s.total\" must be true.", field);
     }
     band->kind = GB_BAND_TOTAL;
     return true;
+}
+
+/* One band value (an object, or in query form the text of `kind`), checked by the core. */
+static bool band_value(gb_params *params, const char *field, json_t *value, gb_band_kind kind,
+                       gb_band *band)
+{
+    bool ok;
+    memset(band, 0, sizeof *band);
+    if (params->from_query) {
+        ok = json_is_string(value) &&
+             limits_from_text(params, field, json_string_value(value), kind, band);
+    } else {
+        ok = band_from_json(params, field, value, band);
+    }
+    if (!ok) {
+        return false;
+    }
+    gb_status status = gb_band_validate(band);
+    if (status != GB_OK) {
+        return gb_params_fail_status(params, status, field);
+    }
+    return true;
+}
+
+bool gb_params_band_value(gb_params *params, const char *field, json_t *value, gb_band *band)
+{
+    if (!gb_params_ok(params)) {
+        return false;
+    }
+    return band_value(params, field, value, GB_BAND_WAVELENGTH, band);
+}
+
+bool gb_params_is_band_status(gb_status status)
+{
+    switch (status) {
+    case GB_ERR_BAND_LIMITS:
+    case GB_ERR_BAND_REVERSED:
+    case GB_ERR_RESPONSE_TOO_SHORT:
+    case GB_ERR_RESPONSE_UNSORTED:
+    case GB_ERR_RESPONSE_NEGATIVE:
+    case GB_ERR_RESPONSE_ALL_ZERO: return true;
+    default: return false;
+    }
 }
 
 bool gb_params_band(gb_params *params, bool required, gb_band *band, bool *present)
@@ -809,7 +910,6 @@ bool gb_params_band(gb_params *params, bool required, gb_band *band, bool *prese
     json_t *value = json_object_get(params->root, "band");
     json_t *wavenumber = params->from_query ? json_object_get(params->root, "band_wavenumber")
                                             : NULL;
-    bool ok;
     if (value != NULL && wavenumber != NULL) {
         return gb_params_fail(params, GB_PROBLEM_CONFLICTING_FIELDS, "band_wavenumber",
                               "Give only one of \"band\" and \"band_wavenumber\".");
@@ -822,24 +922,10 @@ bool gb_params_band(gb_params *params, bool required, gb_band *band, bool *prese
         return true;
     }
     *present = true;
-    memset(band, 0, sizeof *band);
-    if (params->from_query) {
-        const char *field = value != NULL ? "band" : "band_wavenumber";
-        json_t *text = value != NULL ? value : wavenumber;
-        ok = json_is_string(text) &&
-             limits_from_text(params, field, json_string_value(text),
-                              value != NULL ? GB_BAND_WAVELENGTH : GB_BAND_WAVENUMBER, band);
-    } else {
-        ok = band_from_json(params, value, band);
+    if (value != NULL) {
+        return band_value(params, "band", value, GB_BAND_WAVELENGTH, band);
     }
-    if (!ok) {
-        return false;
-    }
-    gb_status status = gb_band_validate(band);
-    if (status != GB_OK) {
-        return gb_params_fail_status(params, status, value != NULL ? "band" : "band_wavenumber");
-    }
-    return true;
+    return band_value(params, "band_wavenumber", wavenumber, GB_BAND_WAVENUMBER, band);
 }
 
 /* ----------------------------------------------------------- broadcast ---- */

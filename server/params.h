@@ -59,7 +59,7 @@ typedef struct gb_params {
 #define GB_REQUIRED 1u  /* missing -> missing_field */
 #define GB_ARRAY_OK 2u  /* an array is accepted (POST only) */
 
-/* Deepest JSON nesting accepted in a body (checked before parsing). */
+/* Deepest JSON nesting accepted in a body by default (checked before parsing). */
 #define GB_PARAMS_MAX_DEPTH 32
 
 /*
@@ -69,6 +69,9 @@ typedef struct gb_params {
  * the caller must json_decref().
  */
 json_t *gb_params_parse_body(const char *body, size_t length, gb_problem *problem);
+/* The same with a nesting limit of `max_depth` (--max-depth) instead of GB_PARAMS_MAX_DEPTH. */
+json_t *gb_params_parse_body_within(const char *body, size_t length, unsigned max_depth,
+                                    gb_problem *problem);
 
 /*
  * The query arguments of a GET request as an object of strings.  A parameter
@@ -76,6 +79,14 @@ json_t *gb_params_parse_body(const char *body, size_t length, gb_problem *proble
  * failure; else a new object the caller must json_decref().
  */
 json_t *gb_params_from_query(struct MHD_Connection *connection, gb_problem *problem);
+
+/*
+ * One decoded query argument into `object` (what gb_params_from_query does for
+ * each; exposed so the query path can be exercised without a connection).
+ * `value` NULL (a key without "=") or a key given twice -> invalid_query.
+ */
+bool gb_params_query_put(json_t *object, const char *key, const char *value,
+                         gb_problem *problem);
 
 /*
  * Starts reading `root`.  `allowed` is a NULL-terminated list of the field
@@ -115,12 +126,26 @@ bool gb_params_choice(gb_params *params, const char *name, const char *const *ch
 
 /*
  * band: {"wavelength": [lo, hi]}, {"wavenumber": [lo, hi]},
- * {"response": {"wavelength": [...], "value": [...]}} or {"total": true};
- * in query form band=lo,hi (um), band=total or band_wavenumber=lo,hi.
+ * {"response": {"wavelength": [...], "value": [...]}}, {"total": true} or
+ * {"preset": "name"} (a band of the presets folder, presets.h; an unknown
+ * name -> 400 invalid_band naming "band"); in query form band=lo,hi (um),
+ * band=total, band=preset:name or band_wavenumber=lo,hi.
  * Absent -> missing_field if required, else the 8-14 um default.
  * The limits are checked by the core (gb_band_validate) -> 422 naming "band".
+ * A preset band's response arrays belong to the installed presets (they live
+ * until the process ends).
  */
 bool gb_params_band(gb_params *params, bool required, gb_band *band, bool *present);
+
+/*
+ * One band given as `value` (a member of a list such as "bands"), read as
+ * above: an object, or in query form the text "lo,hi", "total" or
+ * "preset:name"; problems name `field`.
+ */
+bool gb_params_band_value(gb_params *params, const char *field, json_t *value, gb_band *band);
+
+/* True for the statuses of an invalid band (gb_band_validate): the band is the field to blame. */
+bool gb_params_is_band_status(gb_status status);
 
 /*
  * The common length of the given inputs: arrays pair element-wise, scalars and

@@ -69,6 +69,10 @@ static const struct {
     [GB_PROBLEM_OVERLOADED] = {"overloaded", 503, "Server busy"},
     [GB_PROBLEM_OPENAPI_UNAVAILABLE] = {"openapi_unavailable", 503,
                                         "OpenAPI document not available"},
+    [GB_PROBLEM_UNAUTHORIZED] = {"unauthorized", 401, "Authentication required"},
+    [GB_PROBLEM_RESPONSE_TOO_LARGE] = {"response_too_large", 413, "Response too large"},
+    [GB_PROBLEM_MALFORMED_CSV] = {"malformed_csv", 400, "Malformed CSV"},
+    [GB_PROBLEM_TOO_MANY_ROWS] = {"too_many_rows", 413, "Too many rows"},
     [GB_PROBLEM_INTERNAL] = {"internal_error", 500, "Internal error"},
 };
 

@@ -18,6 +18,7 @@
 
 #define GB_CONTENT_JSON "application/json"
 #define GB_CONTENT_PROBLEM "application/problem+json"
+#define GB_REPLY_EXTRA_HEADERS 4
 
 typedef struct gb_reply {
     int status;               /* 0 until a handler sets it */
@@ -27,8 +28,14 @@ typedef struct gb_reply {
     bool body_static;
     const char *allow;      /* Allow header (405, OPTIONS) or NULL */
     int retry_after;        /* Retry-After seconds, 0 = none */
+    const char *www_authenticate; /* WWW-Authenticate header (401) or NULL */
     bool no_store;          /* Cache-Control: no-store (always on errors) */
     const char *problem_code; /* for the log: the problem code of an error reply */
+    /* Headers of the handler's own (frames: pixel counts); name NULL = unused. */
+    struct {
+        const char *name;
+        char value[96];
+    } extra_headers[GB_REPLY_EXTRA_HEADERS];
 } gb_reply;
 
 void gb_reply_init(gb_reply *reply);

@@ -8,6 +8,9 @@
 #include <strings.h>
 #include <time.h>
 
+#include "csv_batch.h"
+#include "frames.h"
+#include "heavywork.h"
 #include "log.h"
 #include "metrics.h"
 #include "params.h"
@@ -25,6 +28,8 @@ typedef struct gb_request {
     size_t route;
     bool want_body;        /* a POST to a /v1 route with a JSON body: keep it */
     bool media_ok;         /* Content-Type is application/json */
+    bool frame;            /* a POST of application/octet-stream frames (frames.h) */
+    bool csv;              /* a POST of a text/csv batch (csv_batch.h) */
     char *body;
     size_t body_length;
     size_t body_capacity;
@@ -121,21 +126,6 @@ static bool append_body(gb_request *rq, size_t limit, const char *data, size_t s
     return true;
 }
 
-static bool acquire_batch_slot(gb_context *context)
-{
-    struct timespec deadline;
-    clock_gettime(CLOCK_REALTIME, &deadline);
-    deadline.tv_sec += GB_BATCH_WAIT_SECONDS;
-    for (;;) {
-        if (sem_timedwait(&context->batches, &deadline) == 0) {
-            return true;
-        }
-        if (errno != EINTR) {
-            return false;
-        }
-    }
-}
-
 static void run_compute(gb_context *context, struct MHD_Connection *connection, gb_request *rq,
                         const gb_route *route, gb_reply *reply)
 {
@@ -143,7 +133,19 @@ static void run_compute(gb_context *context, struct MHD_Connection *connection, 
     gb_problem_clear(&problem);
     json_t *input = NULL;
     bool from_query = rq->method != GB_METHOD_POST;
-    bool holds_slot = false;
+    gb_heavy_work heavy = {&context->batches, GB_BATCH_WAIT_SECONDS, false};
+    if (rq->frame) {
+        gb_frames_serve(context, connection, route, &rq->body, rq->body_length,
+                        rq->body_too_large, &heavy, reply);
+        gb_heavy_work_leave(&heavy);
+        return;
+    }
+    if (rq->csv) {
+        gb_csv_batch_serve(context, connection, route, &rq->body, rq->body_length,
+                           rq->body_too_large, &heavy, reply);
+        gb_heavy_work_leave(&heavy);
+        return;
+    }
 
     if (from_query) {
         input = gb_params_from_query(connection, &problem);
@@ -156,14 +158,13 @@ static void run_compute(gb_context *context, struct MHD_Connection *connection, 
                        context->config.max_body_bytes);
     } else {
         if (rq->body_length > GB_LARGE_BODY_BYTES) {
-            holds_slot = acquire_batch_slot(context);
-            if (!holds_slot) {
-                gb_problem_set(&problem, GB_PROBLEM_OVERLOADED, NULL,
-                               "Too many large requests are being computed; retry shortly.");
+            if (!gb_heavy_work_enter(&heavy)) {
+                gb_heavy_work_refused(&problem, "large requests");
             }
         }
         if (!gb_problem_is_set(&problem)) {
-            input = gb_params_parse_body(rq->body, rq->body_length, &problem);
+            input = gb_params_parse_body_within(rq->body, rq->body_length,
+                                                context->config.max_depth, &problem);
         }
         free(rq->body); /* parsed (or refused): the text is no longer needed */
         rq->body = NULL;
@@ -172,15 +173,13 @@ static void run_compute(gb_context *context, struct MHD_Connection *connection, 
 
     if (input != NULL) {
         gb_call call = {&context->config, input, from_query,
-                        atomic_load(&context->draining)};
+                        atomic_load(&context->draining), &heavy};
         route->handler(&call, reply);
         json_decref(input);
     } else {
         gb_reply_problem(reply, &problem);
     }
-    if (holds_slot) {
-        sem_post(&context->batches);
-    }
+    gb_heavy_work_leave(&heavy);
 }
 
 static void dispatch(gb_context *context, struct MHD_Connection *connection, gb_request *rq,
@@ -215,7 +214,7 @@ static void dispatch(gb_context *context, struct MHD_Connection *connection, gb_
         return;
     }
     if (route->kind == GB_ROUTE_OPS) {
-        gb_call call = {&context->config, NULL, false, atomic_load(&context->draining)};
+        gb_call call = {&context->config, NULL, false, atomic_load(&context->draining), NULL};
         route->handler(&call, reply);
         return;
     }
@@ -228,6 +227,12 @@ static enum MHD_Result queue(gb_context *context, struct MHD_Connection *connect
     struct MHD_Response *response;
     if (reply->status == 0) {
         gb_reply_fail(reply, GB_PROBLEM_INTERNAL, NULL, "The handler gave no response.");
+    }
+    if (reply->status < 400 && reply->length > context->config.max_response_bytes) {
+        gb_reply_release(reply);
+        gb_reply_fail(reply, GB_PROBLEM_RESPONSE_TOO_LARGE, NULL,
+                      "The answer would be larger than the server's limit; ask for fewer "
+                      "values per request.");
     }
     if (reply->body == NULL || reply->length == 0) {
         response = MHD_create_response_from_buffer(0, NULL, MHD_RESPMEM_PERSISTENT);
@@ -254,6 +259,14 @@ static enum MHD_Result queue(gb_context *context, struct MHD_Connection *connect
     }
     if (reply->allow != NULL) {
         MHD_add_response_header(response, MHD_HTTP_HEADER_ALLOW, reply->allow);
+    }
+    if (reply->www_authenticate != NULL) {
+        MHD_add_response_header(response, MHD_HTTP_HEADER_WWW_AUTHENTICATE,
+                                reply->www_authenticate);
+    }
+    for (size_t i = 0; i < GB_REPLY_EXTRA_HEADERS && reply->extra_headers[i].name != NULL; i++) {
+        MHD_add_response_header(response, reply->extra_headers[i].name,
+                                reply->extra_headers[i].value);
     }
     if (reply->retry_after > 0) {
         char seconds[16];
@@ -293,8 +306,15 @@ static gb_request *start(struct MHD_Connection *connection, const char *url, con
     const gb_route *route = gb_route_at(rq->route);
     rq->media_ok = is_json_media_type(
         MHD_lookup_connection_value(connection, MHD_HEADER_KIND, MHD_HTTP_HEADER_CONTENT_TYPE));
+    rq->frame = rq->method == GB_METHOD_POST &&
+                gb_frames_accepts(route, MHD_lookup_connection_value(connection, MHD_HEADER_KIND,
+                                                                     MHD_HTTP_HEADER_CONTENT_TYPE));
+    rq->csv = rq->method == GB_METHOD_POST &&
+              gb_csv_batch_accepts(route, MHD_lookup_connection_value(
+                                              connection, MHD_HEADER_KIND,
+                                              MHD_HTTP_HEADER_CONTENT_TYPE));
     rq->want_body = route != NULL && route->kind == GB_ROUTE_COMPUTE &&
-                    rq->method == GB_METHOD_POST && rq->media_ok;
+                    rq->method == GB_METHOD_POST && (rq->media_ok || rq->frame || rq->csv);
     return rq;
 }
 
@@ -313,6 +333,21 @@ enum MHD_Result gb_request_access(void *cls, struct MHD_Connection *connection, 
             return MHD_NO;
         }
         *con_cls = rq;
+        gb_auth_verdict verdict = gb_auth_check(
+            &context->auth, url, rq->method == GB_METHOD_OPTIONS,
+            MHD_lookup_connection_value(connection, MHD_HEADER_KIND,
+                                        MHD_HTTP_HEADER_AUTHORIZATION));
+        if (verdict != GB_AUTH_GRANTED) {
+            /* Refused before the body is read; the connection closes after the answer. */
+            gb_reply reply;
+            gb_reply_init(&reply);
+            gb_reply_fail(&reply, GB_PROBLEM_UNAUTHORIZED, NULL,
+                          verdict == GB_AUTH_MISSING
+                              ? "This server needs \"Authorization: Bearer <token>\"."
+                              : "The bearer token is not valid.");
+            reply.www_authenticate = gb_auth_challenge(verdict);
+            return queue(context, connection, rq, &reply, NULL);
+        }
         if (rq->want_body) {
             const char *length = MHD_lookup_connection_value(connection, MHD_HEADER_KIND,
                                                              MHD_HTTP_HEADER_CONTENT_LENGTH);
@@ -353,6 +388,7 @@ enum MHD_Result gb_request_access(void *cls, struct MHD_Connection *connection, 
     if (rq->responded) {
         return MHD_YES;
     }
+    gb_deadlines_received(connection);
 
     gb_reply reply;
     gb_reply_init(&reply);
@@ -366,7 +402,7 @@ void gb_request_completed(void *cls, struct MHD_Connection *connection, void **c
 {
     gb_request *rq = *con_cls;
     (void)cls;
-    (void)connection;
+    gb_deadlines_restart(connection);
     if (rq == NULL) {
         return;
     }

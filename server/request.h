@@ -18,8 +18,10 @@
 #include <stdatomic.h>
 #include <stdbool.h>
 
+#include "auth.h"
 #include "config.h"
 #include "cors.h"
+#include "deadline.h"
 
 /* Bodies above this size are "large": parsed and computed under gb_context.batches. */
 #define GB_LARGE_BODY_BYTES (64u * 1024u)
@@ -32,6 +34,8 @@ typedef struct gb_context {
     gb_cors cors;
     sem_t batches;       /* large requests computed at once */
     atomic_bool draining; /* shutting down: /readyz says so, responses close */
+    gb_auth auth;          /* bearer token, when configured */
+    gb_deadlines *deadlines; /* read timeout watcher, NULL when off */
 } gb_context;
 
 /* libmicrohttpd callbacks; `cls` is the gb_context. */

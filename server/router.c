@@ -20,11 +20,20 @@ static const gb_route routes[] = {
     COMPUTE("/v1/band-temperature", gb_handle_band_temperature),
     COMPUTE("/v1/corrected-temperature", gb_handle_corrected_temperature),
     COMPUTE("/v1/sensitivity", gb_handle_sensitivity),
+    COMPUTE("/v1/emissivity", gb_handle_emissivity),
+    COMPUTE("/v1/ratio-temperature", gb_handle_ratio_temperature),
+    COMPUTE("/v1/spectrum", gb_handle_spectrum),
+    /* POST only: the points are an array of objects, which a query string cannot carry. */
+    {"/v1/calibration/fit", GB_METHOD_POST | GB_METHOD_OPTIONS, "POST, OPTIONS", GB_ROUTE_COMPUTE,
+     gb_handle_calibration_fit},
+    COMPUTE("/v1/calibration/apply", gb_handle_calibration_apply),
+    OPS("/v1/presets", gb_handle_presets), /* read-only: GET, HEAD, OPTIONS */
     OPS("/healthz", gb_handle_healthz),
     OPS("/readyz", gb_handle_readyz),
     OPS("/version", gb_handle_version),
     OPS("/metrics", gb_handle_metrics),
     OPS("/openapi.json", gb_handle_openapi),
+    OPS("/", gb_handle_page),
 };
 
 #define ROUTE_COUNT (sizeof routes / sizeof routes[0])

@@ -13,6 +13,7 @@
 #include <stddef.h>
 
 #include "config.h"
+#include "heavywork.h"
 #include "reply.h"
 
 typedef enum gb_method {
@@ -31,6 +32,7 @@ typedef struct gb_call {
     json_t *input;   /* /v1 routes: the request's fields (an object); others: NULL */
     bool from_query; /* input came from a GET query string: its values are strings */
     bool draining;   /* the server is shutting down */
+    gb_heavy_work *heavy_work; /* /v1 routes: take a slot before heavy computation; else NULL */
 } gb_call;
 
 typedef void (*gb_handler)(const gb_call *call, gb_reply *reply);

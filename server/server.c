@@ -16,6 +16,7 @@
 #include "metrics.h"
 #include "openapi.h"
 #include "request.h"
+#include "tls.h"
 
 #define THREAD_STACK_BYTES ((size_t)1024 * 1024)
 
@@ -26,7 +27,17 @@ struct gb_server {
     bool quiesced;
     uint16_t port;
     struct sockaddr_storage address;
+    gb_tls tls;
 };
+
+/* Undoes a partial start: what gb_server_start acquired before it failed. */
+static void release_security(gb_server *server)
+{
+    gb_deadlines_stop(server->context.deadlines);
+    server->context.deadlines = NULL;
+    gb_tls_free(&server->tls);
+    gb_auth_clear(&server->context.auth);
+}
 
 /* libmicrohttpd's own messages, as log events, at most 20 a second. */
 static void mhd_logger(void *cls, const char *format, va_list args)
@@ -121,8 +132,23 @@ gb_server *gb_server_start(const gb_config *config, char *error, size_t error_si
         free(server);
         return NULL;
     }
+    if (!gb_auth_load(&server->context.auth, config, error, error_size) ||
+        !gb_tls_load(&server->tls, config, error, error_size)) {
+        release_security(server);
+        free(server);
+        return NULL;
+    }
+    bool watcher_failed = false;
+    server->context.deadlines = gb_deadlines_start(config->read_timeout_seconds, &watcher_failed);
+    if (watcher_failed) {
+        snprintf(error, error_size, "cannot start the read-timeout watcher");
+        release_security(server);
+        free(server);
+        return NULL;
+    }
     if (sem_init(&server->context.batches, 0, config->max_batches) != 0) {
         snprintf(error, error_size, "cannot create the batch semaphore");
+        release_security(server);
         free(server);
         return NULL;
     }
@@ -138,6 +164,15 @@ gb_server *gb_server_start(const gb_config *config, char *error, size_t error_si
     if (server->address.ss_family == AF_INET6) {
         flags |= MHD_USE_IPv6;
     }
+    if (server->tls.enabled) {
+        flags |= MHD_USE_TLS;
+    }
+    struct MHD_OptionItem tls_options[] = {
+        {server->tls.enabled ? MHD_OPTION_HTTPS_MEM_CERT : MHD_OPTION_END, 0,
+         server->tls.certificate},
+        {MHD_OPTION_HTTPS_MEM_KEY, 0, server->tls.key},
+        {MHD_OPTION_END, 0, NULL},
+    };
     struct MHD_OptionItem options[] = {
         {MHD_OPTION_EXTERNAL_LOGGER, (intptr_t)mhd_logger, NULL},
         {MHD_OPTION_SOCK_ADDR, 0, &server->address},
@@ -145,16 +180,28 @@ gb_server *gb_server_start(const gb_config *config, char *error, size_t error_si
         {MHD_OPTION_CONNECTION_TIMEOUT, (intptr_t)config->timeout_seconds, NULL},
         {MHD_OPTION_THREAD_STACK_SIZE, (intptr_t)THREAD_STACK_BYTES, NULL},
         {MHD_OPTION_NOTIFY_COMPLETED, (intptr_t)gb_request_completed, &server->context},
+        {MHD_OPTION_NOTIFY_CONNECTION, (intptr_t)gb_deadlines_notify, server->context.deadlines},
+        {MHD_OPTION_PER_IP_CONNECTION_LIMIT, (intptr_t)config->max_connections_per_ip, NULL},
+        {MHD_OPTION_CONNECTION_MEMORY_LIMIT, (intptr_t)config->connection_memory_bytes, NULL},
         {config->threads > 0 ? MHD_OPTION_THREAD_POOL_SIZE : MHD_OPTION_END,
          (intptr_t)config->threads, NULL},
         {MHD_OPTION_END, 0, NULL},
     };
     server->daemon = MHD_start_daemon(flags, 0, NULL, NULL, gb_request_access, &server->context,
-                                      MHD_OPTION_ARRAY, options, MHD_OPTION_END);
+                                      MHD_OPTION_ARRAY, options, MHD_OPTION_ARRAY, tls_options,
+                                      MHD_OPTION_END);
     if (server->daemon == NULL) {
-        snprintf(error, error_size, "cannot listen on %s (address in use or not available?)",
-                 config->listen);
+        if (server->tls.enabled) {
+            snprintf(error, error_size,
+                     "cannot listen on %s with TLS (address in use, or --tls-cert/--tls-key "
+                     "rejected: a certificate and its matching unencrypted key?)",
+                     config->listen);
+        } else {
+            snprintf(error, error_size,
+                     "cannot listen on %s (address in use or not available?)", config->listen);
+        }
         sem_destroy(&server->context.batches);
+        release_security(server);
         free(server);
         return NULL;
     }
@@ -194,6 +241,7 @@ void gb_server_stop(gb_server *server)
     if (server->quiesced_socket != MHD_INVALID_SOCKET) {
         close(server->quiesced_socket);
     }
+    release_security(server);
     sem_destroy(&server->context.batches);
     free(server);
 }

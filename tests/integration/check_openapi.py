@@ -22,6 +22,7 @@ CONTRACT = ROOT / "api-docs" / "openapi.yaml"
 REQUIRED_PATHS = [
     "/v1/radiance", "/v1/brightness-temperature", "/v1/peak", "/v1/band",
     "/v1/band-temperature", "/v1/corrected-temperature", "/v1/sensitivity",
+    "/v1/emissivity", "/v1/ratio-temperature", "/v1/spectrum", "/v1/presets",
     "/healthz", "/readyz", "/version", "/metrics", "/openapi.json",
 ]
 HTTP_METHODS = {"get", "put", "post", "delete", "options", "head", "patch", "trace"}

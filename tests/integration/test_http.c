@@ -43,8 +43,11 @@
 #include <setjmp.h> /* cmocka needs these before its header */
 #include <cmocka.h>
 
+#include "http_client.h"
+#include "json_expect.h"
 #include "prometheus_check.h"
 #include "report_text.h"
+#include "response_log.h"
 #include "router.h"
 #include "server_process.h"
 
@@ -128,61 +131,6 @@ static bool start_server(void)
 
 /* ---- HTTP ------------------------------------------------------------------ */
 
-typedef struct http_response {
-    long status;
-    report_text body;
-    report_text headers; /* the final response's header lines, "Name: value\r\n" each */
-} http_response;
-
-static size_t collect_body(char *data, size_t size, size_t count, void *user)
-{
-    report_text_append(user, data, size * count);
-    return size * count;
-}
-
-static size_t collect_header(char *data, size_t size, size_t count, void *user)
-{
-    report_text *headers = user;
-    /* A new status line (after 100 Continue) starts the headers over. */
-    if (size * count >= 5 && strncmp(data, "HTTP/", 5) == 0) {
-        report_text_clear(headers);
-    }
-    report_text_append(headers, data, size * count);
-    return size * count;
-}
-
-/* Value of header `name` (case-insensitive) copied into `out`; false when absent. */
-static bool find_header(const http_response *response, const char *name, char *out, size_t size)
-{
-    size_t name_length = strlen(name);
-    const char *line = response->headers.data;
-    while (line != NULL && *line != '\0') {
-        const char *end = strstr(line, "\r\n");
-        size_t line_length = end != NULL ? (size_t)(end - line) : strlen(line);
-        if (line_length > name_length && strncasecmp(line, name, name_length) == 0
-            && line[name_length] == ':') {
-            const char *value = line + name_length + 1;
-            const char *value_end = line + line_length;
-            while (value < value_end && (*value == ' ' || *value == '\t')) {
-                value++;
-            }
-            while (value_end > value && (value_end[-1] == ' ' || value_end[-1] == '\t')) {
-                value_end--;
-            }
-            snprintf(out, size, "%.*s", (int)(value_end - value), value);
-            return true;
-        }
-        line = end != NULL ? end + 2 : NULL;
-    }
-    return false;
-}
-
-static void response_free(http_response *response)
-{
-    report_text_free(&response->body);
-    report_text_free(&response->headers);
-}
-
 /* One exchange; false with `error` filled when the transfer itself failed. */
 static bool http_exchange(const char *method, const char *path, struct curl_slist *headers,
                           const char *body, size_t body_length, http_response *response,
@@ -190,36 +138,11 @@ static bool http_exchange(const char *method, const char *path, struct curl_slis
 {
     char url[PATH_TEXT_MAX];
     snprintf(url, sizeof url, "%s%s", base_url, path);
-    memset(response, 0, sizeof *response);
-    curl_easy_reset(client);
-    curl_easy_setopt(client, CURLOPT_URL, url);
-    curl_easy_setopt(client, CURLOPT_WRITEFUNCTION, collect_body);
-    curl_easy_setopt(client, CURLOPT_WRITEDATA, &response->body);
-    curl_easy_setopt(client, CURLOPT_HEADERFUNCTION, collect_header);
-    curl_easy_setopt(client, CURLOPT_HEADERDATA, &response->headers);
-    curl_easy_setopt(client, CURLOPT_HTTPHEADER, headers);
-    curl_easy_setopt(client, CURLOPT_NOPROXY, "*");
-    curl_easy_setopt(client, CURLOPT_TIMEOUT, 60L);
-    if (strcmp(method, "HEAD") == 0) {
-        curl_easy_setopt(client, CURLOPT_NOBODY, 1L);
-    } else if (strcmp(method, "GET") != 0) {
-        curl_easy_setopt(client, CURLOPT_CUSTOMREQUEST, method);
-    }
-    if (body != NULL) {
-        curl_easy_setopt(client, CURLOPT_POSTFIELDS, body);
-        curl_easy_setopt(client, CURLOPT_POSTFIELDSIZE_LARGE, (curl_off_t)body_length);
-    }
-    CURLcode result = curl_easy_perform(client);
-    if (result != CURLE_OK) {
-        snprintf(error, error_size, "%.16s %.300s: %.150s", method, url,
-                 curl_easy_strerror(result));
-        response_free(response);
+    if (!http_client_exchange(client, url, method, headers, body, body_length, NULL, response,
+                              error, error_size)) {
         return false;
     }
-    curl_easy_getinfo(client, CURLINFO_RESPONSE_CODE, &response->status);
-    if (response->body.data == NULL) {
-        report_text_append(&response->body, "", 0);
-    }
+    response_log_append(method, path, response); /* for tests/spec/check_responses.py */
     return true;
 }
 
@@ -231,49 +154,11 @@ static long get_status(const char *path)
         return -1;
     }
     long status = response.status;
-    response_free(&response);
+    http_response_free(&response);
     return status;
 }
 
 /* ---- JSON pointer (RFC 6901) --------------------------------------------- */
-
-static json_t *json_pointer_get(json_t *root, const char *pointer)
-{
-    if (pointer[0] == '\0') {
-        return root;
-    }
-    if (pointer[0] != '/') {
-        return NULL;
-    }
-    json_t *node = root;
-    const char *cursor = pointer + 1;
-    for (;;) {
-        char token[256];
-        size_t length = 0;
-        while (*cursor != '\0' && *cursor != '/' && length + 1 < sizeof token) {
-            if (cursor[0] == '~' && (cursor[1] == '0' || cursor[1] == '1')) {
-                token[length++] = cursor[1] == '0' ? '~' : '/';
-                cursor += 2;
-            } else {
-                token[length++] = *cursor++;
-            }
-        }
-        token[length] = '\0';
-        if (json_is_object(node)) {
-            node = json_object_get(node, token);
-        } else if (json_is_array(node)) {
-            char *end = NULL;
-            unsigned long index = strtoul(token, &end, 10);
-            node = (length > 0 && *end == '\0') ? json_array_get(node, index) : NULL;
-        } else {
-            node = NULL;
-        }
-        if (node == NULL || *cursor == '\0') {
-            return node;
-        }
-        cursor++;
-    }
-}
 
 /* Sets `value` (stolen) at `pointer` inside `root`; the parent must exist. */
 static bool json_pointer_set(json_t *root, const char *pointer, json_t *value)
@@ -285,7 +170,7 @@ static bool json_pointer_set(json_t *root, const char *pointer, json_t *value)
     }
     char parent_pointer[256];
     snprintf(parent_pointer, sizeof parent_pointer, "%.*s", (int)(slash - pointer), pointer);
-    json_t *parent = json_pointer_get(root, parent_pointer);
+    json_t *parent = json_expect_pointer(root, parent_pointer);
     if (!json_is_object(parent)) {
         json_decref(value);
         return false;
@@ -295,14 +180,9 @@ static bool json_pointer_set(json_t *root, const char *pointer, json_t *value)
 
 /* ---- expectations ---------------------------------------------------------- */
 
-static bool is_approx_matcher(const json_t *expected)
-{
-    return json_is_object(expected) && json_object_get(expected, "approx") != NULL;
-}
-
 static bool uses_approx(json_t *expected)
 {
-    if (is_approx_matcher(expected)) {
+    if (json_expect_is_approx(expected)) {
         return true;
     }
     size_t index;
@@ -322,82 +202,6 @@ static bool uses_approx(json_t *expected)
         }
     }
     return false;
-}
-
-static void describe(const json_t *value, char *out, size_t size)
-{
-    char *dump = value != NULL
-                     ? json_dumps(value, JSON_ENCODE_ANY | JSON_COMPACT | JSON_REAL_PRECISION(17))
-                     : NULL;
-    snprintf(out, size, "%s", dump != NULL ? dump : "(absent)");
-    free(dump);
-}
-
-/* Compares `actual` with `expected` (see the file comment); reports into `report`. */
-static void match_value(const char *where, json_t *expected, json_t *actual, report_text *report)
-{
-    char shown_expected[512];
-    char shown_actual[512];
-    if (is_approx_matcher(expected)) {
-        double target = json_number_value(json_object_get(expected, "approx"));
-        json_t *rel = json_object_get(expected, "rel");
-        json_t *abs = json_object_get(expected, "abs");
-        double tolerance = fmax(fabs(target) * (rel != NULL ? json_number_value(rel) : 1e-9),
-                                abs != NULL ? json_number_value(abs) : 0.0);
-        if (!json_is_number(actual)) {
-            describe(actual, shown_actual, sizeof shown_actual);
-            report_text_printf(report, "  %s: expected a number near %.17g, got %s\n", where,
-                               target, shown_actual);
-        } else if (!(fabs(json_number_value(actual) - target) <= tolerance)) {
-            double got = json_number_value(actual);
-            report_text_printf(
-                report, "  %s: expected %.17g within %.3g, got %.17g (relative error %.3g)\n",
-                where, target, tolerance, got,
-                target != 0.0 ? fabs(got - target) / fabs(target) : fabs(got));
-        }
-        return;
-    }
-    if (json_is_array(expected)) {
-        if (!json_is_array(actual) || json_array_size(actual) != json_array_size(expected)) {
-            describe(actual, shown_actual, sizeof shown_actual);
-            report_text_printf(report, "  %s: expected an array of %zu, got %s\n", where,
-                               json_array_size(expected), shown_actual);
-            return;
-        }
-        size_t index;
-        json_t *item;
-        json_array_foreach(expected, index, item) {
-            char child[256];
-            snprintf(child, sizeof child, "%s/%zu", where, index);
-            match_value(child, item, json_array_get(actual, index), report);
-        }
-        return;
-    }
-    if (json_is_object(expected)) {
-        if (!json_is_object(actual)) {
-            describe(actual, shown_actual, sizeof shown_actual);
-            report_text_printf(report, "  %s: expected an object, got %s\n", where, shown_actual);
-            return;
-        }
-        const char *key;
-        json_t *item;
-        json_object_foreach(expected, key, item) {
-            char child[256];
-            snprintf(child, sizeof child, "%s/%s", where, key);
-            match_value(child, item, json_object_get(actual, key), report);
-        }
-        return;
-    }
-    bool same =
-        json_is_number(expected)
-            ? json_is_number(actual) && json_number_value(actual) == json_number_value(expected)
-            : actual != NULL && json_equal(expected, actual);
-    if (!same) {
-        describe(expected, shown_expected, sizeof shown_expected);
-        describe(actual, shown_actual, sizeof shown_actual);
-        report_text_printf(report, "  %s: expected %s, got %s\n", where, shown_expected,
-                           shown_actual);
-    }
 }
 
 /* Copies `text` without blanks, lower-cased: media types and parameters are case-insensitive here. */
@@ -470,7 +274,7 @@ static void check_headers(json_t *expected_headers, const http_response *respons
     json_t *expected;
     json_object_foreach(expected_headers, name, expected) {
         char value[1024];
-        bool present = find_header(response, name, value, sizeof value);
+        bool present = http_response_header(response, name, value, sizeof value);
         if (json_is_null(expected)) {
             if (present) {
                 report_text_printf(report, "  header %s: expected absent, got \"%s\"\n", name,
@@ -634,7 +438,7 @@ static void check_expectations(json_t *spec, const http_response *response, repo
     const char *content_type = json_string_value(json_object_get(expect, "content_type"));
     if (content_type != NULL) {
         char actual[256];
-        if (!find_header(response, "Content-Type", actual, sizeof actual)) {
+        if (!http_response_header(response, "Content-Type", actual, sizeof actual)) {
             report_text_printf(report, "  content type: expected %s, got none\n", content_type);
         } else if (!content_type_matches(content_type, actual)) {
             report_text_printf(report, "  content type: expected %s, got %s\n", content_type,
@@ -656,15 +460,15 @@ static void check_expectations(json_t *spec, const http_response *response, repo
         const char *pointer;
         json_t *expected;
         json_object_foreach(fields, pointer, expected) {
-            match_value(pointer, expected, json_pointer_get(document, pointer), report);
+            json_expect_match(pointer, expected, json_expect_pointer(document, pointer), report);
         }
         size_t index;
         json_t *pointer_value;
         json_array_foreach(absent, index, pointer_value) {
-            json_t *found = json_pointer_get(document, json_string_value(pointer_value));
+            json_t *found = json_expect_pointer(document, json_string_value(pointer_value));
             if (found != NULL) {
                 char shown[256];
-                describe(found, shown, sizeof shown);
+                json_expect_describe(found, shown, sizeof shown);
                 report_text_printf(report, "  %s: expected absent, got %s\n",
                                    json_string_value(pointer_value), shown);
             }
@@ -696,7 +500,7 @@ static void check_case_shape(json_t *spec, report_text *report)
     }
     static const char *const known_keys[] = {"name",        "source",  "note", "method",
                                              "path",        "headers", "body", "fill",
-                                             "pad_body_to", "expect",  NULL};
+                                             "pad_body_to", "expect",  "heavy", NULL};
     static const char *const known_expect_keys[] = {
         "status", "content_type",  "fields",     "absent",
         "header", "body_contains", "prometheus", NULL};
@@ -759,7 +563,7 @@ static void run_case(void **state)
             report_text_printf(&report, "  (request %s %s; response body: %.600s)\n", method, path,
                                response.body.data);
         }
-        response_free(&response);
+        http_response_free(&response);
     }
     curl_slist_free_all(headers);
     free(body);
@@ -888,7 +692,7 @@ static void served_openapi_is_the_generated_file(void **state)
     assert_int_equal(response.status, 200);
     json_error_t error;
     json_t *served = json_loadb(response.body.data, response.body.length, 0, &error);
-    response_free(&response);
+    http_response_free(&response);
     bool same = served != NULL && json_equal(served, on_disk);
     json_decref(served);
     json_decref(on_disk);
@@ -902,7 +706,7 @@ static json_t *dereference(json_t *document, json_t *node)
     if (reference == NULL || reference[0] != '#') {
         return node;
     }
-    return json_pointer_get(document, reference + 1);
+    return json_expect_pointer(document, reference + 1);
 }
 
 /* The same shape with every number turned into an approx matcher (documented examples are rounded). */
@@ -951,11 +755,11 @@ static void check_documented_example(const char *path, const char *name, json_t 
             report_text_printf(report, "  %s: status %ld, %.200s\n", where, response.status,
                                response.body.data);
         } else {
-            match_value(where, matcher, answer, report);
+            json_expect_match(where, matcher, answer, report);
         }
         json_decref(matcher);
         json_decref(answer);
-        response_free(&response);
+        http_response_free(&response);
     }
     curl_slist_free_all(headers);
     free(body);
@@ -979,9 +783,9 @@ static void documented_examples_match_server(void **state)
     json_object_foreach(json_object_get(document, "paths"), path, item) {
         json_t *post = json_object_get(item, "post");
         json_t *requests =
-            json_pointer_get(post, "/requestBody/content/application~1json/examples");
+            json_expect_pointer(post, "/requestBody/content/application~1json/examples");
         json_t *responses =
-            json_pointer_get(post, "/responses/200/content/application~1json/examples");
+            json_expect_pointer(post, "/responses/200/content/application~1json/examples");
         const char *name;
         json_t *request_example;
         json_object_foreach(requests, name, request_example) {

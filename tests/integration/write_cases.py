@@ -6,61 +6,11 @@ Hand-written case files are welcome too: this script only rewrites the files it 
 after changing the oracle or a case below, and review the diff.  Needs Debian's python3-mpmath:
   /usr/bin/python3 tests/integration/write_cases.py
 """
-import json
-import os
-
+from case_file import FLAT, JSON, MP, OUT, PROBLEM, REF, ap, ok, problem, write, written
 from oracle import (KELVIN_AT_ZERO_CELSIUS, band_quantities, band_radiance, band_temperature,
                     brightness_temperature, corrected, difference_scale, emissivity_error, from_kelvin, kelvin,
                     mp, peaks, radiance_at_frequency, radiance_at_wavelength, radiance_at_wavenumber,
                     sensitivities, wien_temperature)
-
-OUT = os.path.join(os.path.dirname(os.path.abspath(__file__)), "cases")
-MP = "mpmath 30 digits, CODATA 2018 constants (tests/integration/oracle.py)"
-REF = "/work/shared/REFERENCES.md spot checks (mpmath 30 digits, CODATA 2018)"
-JSON = "application/json"
-PROBLEM = "application/problem+json"
-FLAT = ("wavelength", 8, 14)
-written = []
-
-
-def ap(v, rel=1e-9):
-    return {"approx": float(v), "rel": rel}
-
-
-def write(file, name, method, path, expect, body=None, headers=None, source=None, **extra):
-    case = {"name": name}
-    if source:
-        case["source"] = source
-    case["method"] = method
-    case["path"] = path
-    if headers:
-        case["headers"] = headers
-    if body is not None:
-        case["body"] = body
-    case.update(extra)
-    case["expect"] = expect
-    with open(os.path.join(OUT, file + '.json'), 'w') as f:
-        json.dump(case, f, indent=2, ensure_ascii=False)
-        f.write('\n')
-    written.append(file)
-
-
-def ok(fields, absent=None, **more):
-    e = {"status": 200, "content_type": JSON, "fields": fields}
-    if absent:
-        e["absent"] = absent
-    e.update(more)
-    return e
-
-
-def problem(status, code, field=False, **more):
-    f = {"/status": status, "/code": code, "/type": "https://greybody.dev/problems/" + code}
-    if field is not False:
-        f["/field"] = field
-    e = {"status": status, "content_type": PROBLEM, "fields": f}
-    e.update(more)
-    return e
-
 
 def unit_fields(per):
     return {"/radiance_unit": "W m-2 sr-1 " + per, "/exitance_unit": "W m-2 " + per,

@@ -132,9 +132,9 @@ static gb_status solve(const emissivity_request *r, const double *in, emissivity
     answer->emissivity = estimate.emissivity;
     c[ROW_SIGNAL] = e[GB_EMISSIVITY_BY_SIGNAL];
     c[ROW_REFLECTED] = e[GB_EMISSIVITY_BY_REFLECTED];
-    /* d eps/d tau needs the atmosphere's radiance: 0 when none is given (tau = 1). */
     bool tau_defined = estimate.defined[GB_EMISSIVITY_BY_TRANSMITTANCE];
-    c[ROW_TRANSMITTANCE] = tau_defined ? e[GB_EMISSIVITY_BY_TRANSMITTANCE] : 0.0;
+    /* Unknown without an atmosphere (tau = 1): null, not a made-up 0. */
+    c[ROW_TRANSMITTANCE] = tau_defined ? e[GB_EMISSIVITY_BY_TRANSMITTANCE] : NAN;
     c[ROW_ATMOSPHERE] =
         r->scene.atmosphere_form == GB_FORM_ABSENT ? 0.0 : e[GB_EMISSIVITY_BY_ATMOSPHERE];
     if (r->form == FORM_CONTACT) {
@@ -162,7 +162,8 @@ static double combined_uncertainty(const emissivity_request *r, const emissivity
 {
     double sum = 0.0;
     for (size_t i = 0; i < ROW_COUNT; i++) {
-        contribution[i] = fabs(a->partial[i]) * r->u_kelvin[i];
+        /* A null (unknown) sensitivity with no uncertainty contributes nothing. */
+        contribution[i] = r->u_kelvin[i] > 0.0 ? fabs(a->partial[i]) * r->u_kelvin[i] : 0.0;
         sum += contribution[i] * contribution[i];
     }
     return sqrt(sum);

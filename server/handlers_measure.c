@@ -136,11 +136,11 @@ void gb_handle_sensitivity(const gb_call *call, gb_reply *reply)
         status = gb_measure_sensitivity(gb_scene_model_band(&s), &scene, &sensitivity);
         field = gb_scene_field_for(&s, status);
     }
-    if (status == GB_OK && s.atmosphere_form == GB_FORM_ABSENT && s.transmittance.scalar == 1.0) {
-        /* No atmosphere in the path: neither it nor the transmittance matters. */
-        sensitivity.partial[GB_INPUT_TRANSMITTANCE] = 0.0;
-        sensitivity.partial[GB_INPUT_ATMOSPHERE] = 0.0;
-    }
+    /*
+     * tau = 1 with no atmosphere given: dT/dT_atm is 0 (the core says so), but dT/dtau needs
+     * the atmosphere's radiance, so it is unknown and written as null, never as a made-up 0.
+     */
+    bool transmittance_known = sensitivity.defined[GB_INPUT_TRANSMITTANCE];
     if (status == GB_OK) {
         status = gb_gum_budget(&sensitivity, u.kelvin, &budget);
         field = status != GB_OK ? "u_emissivity" : field;
@@ -169,6 +169,9 @@ void gb_handle_sensitivity(const gb_call *call, gb_reply *reply)
     for (size_t i = 0; i < GB_INPUT_COUNT; i++) {
         /* dT/dx: per kelvin of a temperature input is unitless; otherwise unit-sized. */
         c[i] = u.is_temperature[i] ? sensitivity.partial[i] : sensitivity.partial[i] * difference;
+    }
+    if (!transmittance_known) {
+        c[GB_INPUT_TRANSMITTANCE] = NAN; /* written as null */
     }
 
     gb_jw w;

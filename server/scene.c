@@ -1,9 +1,10 @@
 #include "scene.h"
 
+#include <math.h>
 #include <stdio.h>
 #include <string.h>
 
-/* The atmosphere of a path with transmittance 1 when none is given (any value would do). */
+/* Fills the per-element input of an absent atmosphere (tau = 1); the core is given NaN. */
 #define UNUSED_ATMOSPHERE_K 288.15
 
 const char *const gb_scene_signal_names[] = {"apparent_temperature", "measured_radiance", NULL};
@@ -144,8 +145,9 @@ gb_status gb_scene_build(const gb_scene_request *s, const double *in, gb_scene *
         return GB_ERR_TRANSMITTANCE_DOMAIN;
     }
     if (s->atmosphere_form == GB_FORM_ABSENT) {
+        /* measure.h: NaN is "not given" (tau = 1 here), so nothing is computed from it. */
         scene->atmosphere.kind = GB_TERM_TEMPERATURE;
-        scene->atmosphere.value = UNUSED_ATMOSPHERE_K;
+        scene->atmosphere.value = NAN;
         return GB_OK;
     }
     status = build_term(s, s->atmosphere_form, in[GB_SCENE_IN_ATMOSPHERE], true,

@@ -234,7 +234,8 @@ def sensitivities(band, signal, emissivity, reflected, transmittance=1, atmosphe
         atmosphere_radiance = band_radiance(band, atmosphere[1])
     result["transmittance"] = (atmosphere_radiance - eps * surface - (1 - eps) * reflected_radiance) / (tau * eps * slope)
     if atmosphere is None:
-        result["transmittance"] = result["transmittance"] if tau != 1 else mp.mpf(0)
+        # tau = 1 and no atmosphere: dT/dtau needs the atmosphere's radiance -> unknown (null)
+        result["transmittance"] = result["transmittance"] if tau != 1 else None
         result["atmosphere_temperature"] = mp.mpf(0)
     elif atmosphere[0] == "temperature":
         result["atmosphere_temperature"] = -(1 - tau) * _term_derivative(band, atmosphere) / (tau * eps * slope)

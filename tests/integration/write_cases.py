@@ -367,6 +367,10 @@ def sens_fields(band, signal, eps, reflected, tau=1, atm=None, u=None, unit="K",
     # per-unit-of-input scaling: temperatures in and out scale alike; others scale with output only
     scaled = {}
     for name, v in s.items():
+        if v is None:  # unknown (dT/dtau without an atmosphere): the server writes null
+            scaled[name] = None
+            f["/sensitivity/" + name] = None
+            continue
         scaled[name] = v if name.endswith("_temperature") else v * k
         f["/sensitivity/" + name] = ap(scaled[name]) if v != 0 else 0
     order = list(s.keys())
@@ -376,8 +380,9 @@ def sens_fields(band, signal, eps, reflected, tau=1, atm=None, u=None, unit="K",
             f[f"/budget/{i}/quantity"] = name
             f[f"/budget/{i}/standard_uncertainty"] = float(ui)
             f[f"/budget/{i}/sensitivity"] = f["/sensitivity/" + name]
-            f[f"/budget/{i}/contribution"] = ap(abs(scaled[name]) * ui) if scaled[name] * ui != 0 else 0
-        uc = mp.sqrt(sum((scaled[n] * mp.mpf(u.get(n, 0)))**2 for n in order))
+            known = scaled[name] is not None
+            f[f"/budget/{i}/contribution"] = ap(abs(scaled[name]) * ui) if known and scaled[name] * ui != 0 else 0
+        uc = mp.sqrt(sum((scaled[n] * mp.mpf(u.get(n, 0)))**2 for n in order if scaled[n] is not None))
         f["/combined_standard_uncertainty"] = ap(uc)
         f["/expanded_uncertainty"] = ap(2 * uc)
         f["/coverage_factor"] = 2

@@ -112,7 +112,7 @@ def emissivity_cases():
               "/budget/1/sensitivity": ap(partial["signal"], 1e-8),
               "/budget/2/quantity": "reflected_temperature",
               "/budget/2/sensitivity": ap(partial["reflected"], 1e-8),
-              "/budget/3/quantity": "transmittance", "/budget/3/sensitivity": 0,
+              "/budget/3/quantity": "transmittance", "/budget/3/sensitivity": None,
               "/budget/4/quantity": "atmosphere_temperature"},
              absent=["/budget/5"]),
           source=ASTM, note="the signal was generated from eps = 0.87 (workflows.py row round_trip_lwir)")

@@ -180,3 +180,23 @@ gb_status gb_frame_brightness_temperature(const gb_planck_position *position, gb
     }
     return GB_OK;
 }
+
+gb_status gb_frame_calibration_apply(const gb_calibration *calibration, gb_frame *frame)
+{
+    gb_status status;
+    if (frame_invalid(frame)) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    status = gb_calibration_check(calibration);
+    if (status != GB_OK) {
+        return status;
+    }
+    frame->unresolved = 0;
+    for (size_t i = 0; i < frame->count; ++i) {
+        double kelvin = 0.0, unused_uncertainty = 0.0;
+        status = gb_calibration_apply(calibration, (double)frame->signal[i], 0.0, &kelvin,
+                                      &unused_uncertainty);
+        emit(frame, i, status, kelvin);
+    }
+    return GB_OK;
+}

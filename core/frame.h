@@ -7,7 +7,8 @@
  * the table covers the pixel, and through the exact band functions (band.h)
  * wherever it does not, so every pixel gets an answer whatever the table's
  * range.  The brightness-temperature form inverts Planck's law at one
- * spectral position prepared once (planck.h).
+ * spectral position prepared once (planck.h); the calibration form takes
+ * instrument signals through a fitted calibration (calibration.h).
  *
  * A pixel without an answer -- an input out of domain, no net signal left
  * after the reflected and atmospheric terms, a result beyond the solver's
@@ -30,6 +31,7 @@
 
 #include "band.h"
 #include "bandtable.h"
+#include "calibration.h"
 #include "measure.h"
 #include "planck.h"
 #include "status.h"
@@ -71,5 +73,18 @@ gb_status gb_frame_measure_temperature(const gb_band *band, const gb_band_table 
 
 /* The brightness temperature of every pixel of spectral radiances at one position. */
 gb_status gb_frame_brightness_temperature(const gb_planck_position *position, gb_frame *frame);
+
+/*
+ * The blackbody-equivalent temperature of every pixel of instrument signals
+ * through a calibration (calibration.h, gb_calibration_apply with no signal
+ * uncertainty): `signal` holds the instrument's own units; signal_kind,
+ * radiance_scale, emissivity and emissivity_map are not read.  A signal no
+ * temperature gives (<= 0 for Sakuma-Hattori, <= offset for the band model)
+ * is a pixel without an answer, status GB_ERR_SIGNAL_OUT_OF_RANGE.  The
+ * calibration itself is checked once (gb_calibration_check's statuses).
+ * Band-model calibrations invert the exact band functions pixel by pixel:
+ * correct, but far slower per pixel than Sakuma-Hattori's closed form.
+ */
+gb_status gb_frame_calibration_apply(const gb_calibration *calibration, gb_frame *frame);
 
 #endif

@@ -33,11 +33,13 @@ static const char *const corrected_signals[] = {"apparent_temperature", "measure
                                                 NULL};
 static const char *const band_signals[] = {"radiance", "exitance", NULL};
 static const char *const brightness_signals[] = {"radiance", NULL};
+static const char *const calibration_signals[] = {"signal", NULL};
 
 static const frame_endpoint endpoints[] = {
     {gb_handle_corrected_temperature, corrected_signals, gb_convert_frame_corrected},
     {gb_handle_band_temperature, band_signals, gb_convert_frame_band_temperature},
     {gb_handle_brightness_temperature, brightness_signals, gb_convert_frame_brightness},
+    {gb_handle_calibration_apply, calibration_signals, gb_convert_frame_calibration_apply},
 };
 
 static const frame_endpoint *endpoint_for(const gb_route *route)

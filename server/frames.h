@@ -1,14 +1,19 @@
 /*
  * frames.h — whole thermal frames over HTTP, without JSON.
  *
- * POST /v1/corrected-temperature, /v1/band-temperature or
- * /v1/brightness-temperature with Content-Type: application/octet-stream:
- * the body is a plane of little-endian IEEE 754 float32 pixels, row after
- * row, and the scalar inputs are query parameters named as in the JSON form.
+ * POST /v1/corrected-temperature, /v1/band-temperature,
+ * /v1/brightness-temperature or /v1/calibration/apply with Content-Type:
+ * application/octet-stream: the body is a plane of little-endian IEEE 754
+ * float32 pixels, row after row, and the scalar inputs are query parameters
+ * named as in the JSON form (calibration/apply's `calibration` as its JSON
+ * text, as for CSV).
  *   - The first plane holds the endpoint's signal (apparent_temperature for
- *     corrected-temperature, radiance for the other two); name another signal
+ *     corrected-temperature, radiance for band- and brightness-temperature,
+ *     the instrument's signal for calibration/apply); name another signal
  *     form by giving it the value "frame" (measured_radiance=frame,
  *     exitance=frame).
+ *   - calibration/apply returns no per-pixel uncertainty (u_signal is
+ *     refused); its JSON and CSV forms do.
  *   - emissivity=map: a second plane of the same size follows the first and
  *     holds each pixel's emissivity (the body is 2 x N floats).
  *   - width, height (optional): checked against the pixel count.
@@ -20,7 +25,8 @@
  * -459.67 F) -- never NaN -- and the header Greybody-Unresolved-Pixels
  * counts them (0 for a clean frame, so most clients need nothing more).
  * Status-plane codes: 0 answered; 1 an input out of its domain (emissivity
- * outside (0, 1], temperature or radiance out of range); 2 net signal not
+ * outside (0, 1], temperature or radiance out of range, a signal no
+ * temperature gives under the calibration); 2 net signal not
  * positive (reflected and atmospheric terms exceed the signal); 3 result out
  * of the solver's range.
  * Errors are problem documents as for JSON: a body that is not whole float32

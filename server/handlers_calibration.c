@@ -19,6 +19,7 @@
 #include "calibration.h"
 #include "elementwise.h"
 #include "handlers.h"
+#include "handlers_calibration.h"
 #include "units.h"
 
 static const char *const model_names[] = {"sakuma-hattori", "band", NULL};
@@ -519,12 +520,9 @@ static const char *calibration_field(gb_status status)
     }
 }
 
-/*
- * The calibration object (in a query or CSV row: its JSON text).  `inner`
- * reads it and owns the band's arrays; the caller ends it.
- */
-static bool read_calibration(gb_params *p, gb_params *inner, size_t max_array, json_t **owned,
-                             gb_calibration *c)
+/* The calibration object (in a query or CSV row: its JSON text); handlers_calibration.h. */
+bool gb_read_calibration(gb_params *p, gb_params *inner, size_t max_array, json_t **owned,
+                         gb_calibration *c)
 {
     static const char *const fields[] = {"model", "parameters", "covariance", "band", NULL};
     json_t *value = json_object_get(p->root, "calibration");
@@ -635,7 +633,7 @@ void gb_handle_calibration_apply(const gb_call *call, gb_reply *reply)
               gb_params_temperature_unit(&p, &r.unit) &&
               gb_params_number(&p, "signal", GB_REQUIRED | GB_ARRAY_OK, 0.0, &r.signal) &&
               gb_params_number(&p, "u_signal", GB_ARRAY_OK, 0.0, &r.u_signal) &&
-              read_calibration(&p, &inner, call->config->max_array, &owned, &r.calibration);
+              gb_read_calibration(&p, &inner, call->config->max_array, &owned, &r.calibration);
     batch.inputs[0] = &r.signal;
     batch.inputs[1] = &r.u_signal;
     batch.input_count = 2;

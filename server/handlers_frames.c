@@ -1,14 +1,15 @@
 /*
  * The frame form (frames.h) of /v1/corrected-temperature,
- * /v1/band-temperature and /v1/brightness-temperature: the scalar inputs
- * from the query string, the pixels through core/frame.h, band tables from
- * the shared cache (tablecache.h).
+ * /v1/band-temperature, /v1/brightness-temperature and
+ * /v1/calibration/apply: the scalar inputs from the query string, the pixels
+ * through core/frame.h, band tables from the shared cache (tablecache.h).
  */
 #include <math.h>
 #include <stddef.h>
 #include <string.h>
 
 #include "constants.h"
+#include "handlers_calibration.h"
 #include "handlers_frames.h"
 #include "params.h"
 #include "spectral.h"
@@ -228,5 +229,38 @@ bool gb_convert_frame_brightness(gb_frame_call *call, gb_problem *problem)
         (void)gb_frame_brightness_temperature(&prepared, frame);
     }
     gb_params_end(&p);
+    return ok;
+}
+
+bool gb_convert_frame_calibration_apply(gb_frame_call *call, gb_problem *problem)
+{
+    static const char *const fields[] = {"calibration", "temperature_unit", NULL};
+    gb_frame *frame = call->frame;
+    gb_params p, inner;
+    gb_calibration calibration;
+    json_t *owned = NULL;
+    memset(&inner, 0, sizeof inner);
+    if (frame->emissivity_map != NULL) {
+        gb_problem_set(problem, GB_PROBLEM_UNKNOWN_FIELD, "emissivity",
+                       "A calibration gives blackbody-equivalent temperatures and takes no "
+                       "emissivity map; correct them with /v1/corrected-temperature.");
+        return false;
+    }
+    if (json_object_get(call->query, "u_signal") != NULL) {
+        gb_problem_set(problem, GB_PROBLEM_UNKNOWN_FIELD, "u_signal",
+                       "A frame carries no per-pixel uncertainty: send u_signal with the JSON "
+                       "or CSV form, which return u_temperature.");
+        return false;
+    }
+    bool ok = gb_params_begin(&p, call->query, true, call->config->max_array, fields, problem) &&
+              gb_params_temperature_unit(&p, &frame->unit) &&
+              gb_read_calibration(&p, &inner, call->config->max_array, &owned, &calibration);
+    if (ok) {
+        /* gb_read_calibration checked the calibration: the statuses say it all. */
+        (void)gb_frame_calibration_apply(&calibration, frame);
+    }
+    gb_params_end(&inner);
+    gb_params_end(&p);
+    json_decref(owned);
     return ok;
 }

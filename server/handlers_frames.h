@@ -1,6 +1,6 @@
 /*
- * handlers_frames.h — the frame form (frames.h) of the three conversions that
- * take whole frames: each reads its scalar query parameters, fills in the
+ * handlers_frames.h — the frame form (frames.h) of the conversions that take
+ * whole frames: each reads its scalar query parameters, fills in the
  * gb_frame's inputs and runs the core (frame.h) over it.
  */
 #ifndef GREYBODY_HANDLERS_FRAMES_H
@@ -26,5 +26,6 @@ typedef bool (*gb_frame_convert)(gb_frame_call *call, gb_problem *problem);
 bool gb_convert_frame_corrected(gb_frame_call *call, gb_problem *problem);
 bool gb_convert_frame_band_temperature(gb_frame_call *call, gb_problem *problem);
 bool gb_convert_frame_brightness(gb_frame_call *call, gb_problem *problem);
+bool gb_convert_frame_calibration_apply(gb_frame_call *call, gb_problem *problem);
 
 #endif

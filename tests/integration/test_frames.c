@@ -7,7 +7,8 @@
  * Expected temperatures come from outside the server: the worked examples of
  * /work/shared/REFERENCES.md (9 digits), or tests/integration/oracle.py
  * (mpmath, 30 digits) evaluated at the float32 value each input pixel really
- * holds.  An answer is float32, so it may differ from the exact temperature
+ * holds -- for Sakuma-Hattori calibrations, the model's closed-form inverse in
+ * mpmath.  An answer is float32, so it may differ from the exact temperature
  * by one float32 step of the answer (relative 1.2e-7) plus, for REFERENCES
  * values, what rounding the input to float32 moves it (stated per case).
  */
@@ -105,6 +106,18 @@ typedef struct frame_case {
     const char *source;
 } frame_case;
 
+/*
+ * Invented calibrations as /v1/calibration/fit gives them (percent-encoded JSON):
+ * tests/reference/vectors/calibration_fits.tsv sets sh_handheld_exact (A 9.6 um,
+ * B 120 um K, C 1e5) and band_lwir_exact (8-14 um, gain 850, offset 1200).
+ */
+#define CALIBRATION_HANDHELD                                                                   \
+    "calibration=%7B%22model%22%3A%22sakuma-hattori%22%2C%22parameters%22%3A%7B%22A_um%22%3A9.6" \
+    "%2C%22B_um_K%22%3A120%2C%22C%22%3A1e5%7D%7D"
+#define CALIBRATION_LWIR                                                                       \
+    "calibration=%7B%22model%22%3A%22band%22%2C%22band%22%3A%7B%22wavelength%22%3A%5B8%2C14%5D" \
+    "%7D%2C%22parameters%22%3A%7B%22gain%22%3A850%2C%22offset%22%3A1200%7D%7D"
+
 static const frame_case answer_cases[] = {
     {"worked example A and exact fallbacks, one emissivity",
      "/v1/corrected-temperature?emissivity=0.95&reflected_temperature=293.15&band=8,14"
@@ -150,6 +163,24 @@ static const frame_case answer_cases[] = {
      "/v1/brightness-temperature?wavelength=11000&wavelength_unit=nm",
      {0.0092f}, 1, 1,
      {297.322440924}, 0.0, "0", false, {0},
+     "tests/integration/oracle.py (mpmath)"},
+    {"Sakuma-Hattori calibration with the status plane: signals 0 and below have no answer",
+     "/v1/calibration/apply?status_plane=true&" CALIBRATION_HANDHELD,
+     {1000.0f, 9000.0f, 0.0f, -12.0f}, 4, 4,
+     /* mpmath, 30 digits: T = (c2 / ln(1 + C/S) - B) / A, c2 = 14387.76877 um K (CODATA 2018) */
+     {312.242530140, 588.402894657, 0.0, 0.0}, 0.0, "2", true, {0, 0, 1, 1},
+     "mpmath, closed-form Sakuma-Hattori inverse"},
+    {"Sakuma-Hattori calibration in Celsius, width x height given",
+     "/v1/calibration/apply?temperature_unit=C&signal=frame&width=3&height=1&"
+     CALIBRATION_HANDHELD,
+     {1000.0f, 4200.0f, 9000.0f}, 3, 3,
+     {39.0925301403, 181.064321856, 315.252894657}, 0.0, "0", false, {0},
+     "mpmath, closed-form Sakuma-Hattori inverse"},
+    {"band calibration: exact band inversion, a signal below the offset has no answer",
+     "/v1/calibration/apply?" CALIBRATION_LWIR,
+     {25966.752118959765f, 50168.91875284315f, 117461.5882295673f, 1000.0f}, 4, 4,
+     /* band_temperature((S - offset) / gain) at the float32 signals */
+     {263.149999655, 303.149998930, 373.149998070, 0.0}, 0.0, "1", false, {0},
      "tests/integration/oracle.py (mpmath)"},
 };
 
@@ -266,6 +297,24 @@ static const refusal_case refusal_cases[] = {
      "band_reversed", "band"},
     {"wavelength missing", "/v1/brightness-temperature", NULL, 0, {10.0f}, 1, 400,
      "missing_field", "wavelength"},
+    {"calibration missing", "/v1/calibration/apply?temperature_unit=C", NULL, 0, {1000.0f}, 1,
+     400, "missing_field", "calibration"},
+    {"calibration not JSON", "/v1/calibration/apply?calibration=%7Bmodel", NULL, 0, {1000.0f}, 1,
+     400, "malformed_json", "calibration"},
+    {"calibration without parameters",
+     "/v1/calibration/apply?calibration=%7B%22model%22%3A%22sakuma-hattori%22%7D", NULL, 0,
+     {1000.0f}, 1, 400, "missing_field", "calibration.parameters"},
+    {"calibration frame not whole float32 values", "/v1/calibration/apply?" CALIBRATION_HANDHELD,
+     five_bytes, sizeof five_bytes, {0}, 0, 400, "array_length_mismatch", "body"},
+    {"calibration frame of another width", "/v1/calibration/apply?width=2&" CALIBRATION_HANDHELD,
+     NULL, 0, {1000.0f, 2000.0f, 3000.0f}, 3, 400, "array_length_mismatch", "width"},
+    {"calibration frame with an emissivity map",
+     "/v1/calibration/apply?emissivity=map&" CALIBRATION_HANDHELD, NULL, 0, {1000.0f, 0.9f}, 2,
+     400, "unknown_field", "emissivity"},
+    {"per-pixel signal uncertainty", "/v1/calibration/apply?u_signal=3&" CALIBRATION_HANDHELD,
+     NULL, 0, {1000.0f}, 1, 400, "unknown_field", "u_signal"},
+    {"NaN signal", "/v1/calibration/apply?" CALIBRATION_HANDHELD, NULL, 0, {1000.0f, NAN}, 2,
+     400, "not_finite", "signal"},
 };
 
 static void check_refusal(const refusal_case *c)
@@ -309,6 +358,10 @@ static void too_many_pixels_is_413(void **state)
         pixels[i] = 300.0f;
     }
     post_floats(CORRECTED, pixels, 1001, &response);
+    assert_int_equal(response.status, 413);
+    assert_non_null(strstr(body_of(&response), "\"code\":\"array_too_long\""));
+    http_response_free(&response);
+    post_floats("/v1/calibration/apply?" CALIBRATION_HANDHELD, pixels, 1001, &response);
     assert_int_equal(response.status, 413);
     assert_non_null(strstr(body_of(&response), "\"code\":\"array_too_long\""));
     http_response_free(&response);

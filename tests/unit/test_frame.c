@@ -7,10 +7,14 @@
  * step, inside and outside the table's range; pixels without an answer hold
  * absolute zero in the frame's unit with their status; in place works; array
  * lookups and prepared positions give bit-for-bit the scalar results.
+ * The calibration form is checked against the mpmath vectors of
+ * tests/reference/vectors/calibration_apply.tsv instead (exact data sets,
+ * whose signals the generator made from the invented true parameters).
  */
 #include <math.h>
 #include <setjmp.h>
 #include <stdarg.h>
+#include <stdbool.h>
 #include <stddef.h>
 #include <string.h>
 
@@ -213,6 +217,102 @@ static void test_prepared_position_equals_scalar(void **state)
                      GB_ERR_SPECTRAL_DOMAIN);
 }
 
+/* ---- the calibration form ------------------------------------------------------- */
+
+typedef struct calibration_row {
+    double signal;        /* instrument units, 17 digits */
+    double temperature_k; /* what made the signal */
+} calibration_row;
+
+/* calibration_apply.tsv, set sh_narrow_exact: A 0.6523 um, B 41.7 um K, C 5e11 (invented). */
+static const calibration_row narrow_rows[] = {
+    {1881.6771568976274, 1073.15}, {34250.75532419436, 1273.15},
+    {293000.19240981736, 1473.15}, {3052040.7575781923, 1773.15}};
+/* Set sh_handheld_exact: A 9.6 um, B 120 um K, C 1e5 (invented). */
+static const calibration_row handheld_rows[] = {
+    {355.9346739874131, 253.15}, {1163.6887316898185, 323.15}, {4787.026024158625, 473.15},
+    {17430.49386573968, 773.15}};
+/* Set band_lwir_exact: band 8-14 um, gain 850, offset 1200 (invented). */
+static const calibration_row band_rows[] = {
+    {25966.752118959765, 263.15}, {50168.91875284315, 303.15}, {117461.5882295673, 373.15}};
+
+#define ROWS(rows) (sizeof rows / sizeof rows[0])
+
+/*
+ * Runs `count` rows plus the signals in `refused` (no temperature gives them)
+ * through one frame.  Tolerance, in the unit: one float32 step of the kelvin
+ * value -- half a step for rounding the answer, and less than half for
+ * rounding the signal to float32, which moves T by S |dT/dS| 2^-24 with
+ * S |dT/dS| < T / 2 over these sets (largest: 0.45 T, handheld at 773 K).
+ */
+static void run_calibration_case(const gb_calibration *calibration, const calibration_row *rows,
+                                 size_t count, const float *refused, size_t refused_count,
+                                 gb_temperature_unit unit, bool in_place)
+{
+    float pixels[8];
+    size_t total = count + refused_count;
+    double per_kelvin = unit == GB_FAHRENHEIT ? 1.8 : 1.0;
+    assert_true(total <= 8);
+    for (size_t i = 0; i < count; i++) {
+        pixels[i] = (float)rows[i].signal;
+    }
+    memcpy(pixels + count, refused, refused_count * sizeof *refused);
+    memset(statuses, 0xff, sizeof statuses);
+    gb_frame frame = {total, pixels, GB_TERM_RADIANCE, 1.0, NULL, 1.0, unit,
+                      in_place ? pixels : answer, statuses, 99};
+    assert_int_equal(gb_frame_calibration_apply(calibration, &frame), GB_OK);
+    const float *out = in_place ? pixels : answer;
+    for (size_t i = 0; i < count; i++) {
+        double want = 0.0;
+        assert_int_equal(statuses[i], GB_OK);
+        assert_int_equal(gb_temperature_from_kelvin(rows[i].temperature_k, unit, &want), GB_OK);
+        double tolerance = FLOAT_STEP * rows[i].temperature_k * per_kelvin;
+        if (!(fabs(out[i] - want) <= tolerance)) {
+            fail_msg("pixel %zu: %.9g, expected %.12g +- %.2g", i, (double)out[i], want,
+                     tolerance);
+        }
+    }
+    double absolute_zero = 0.0;
+    assert_int_equal(gb_temperature_from_kelvin(0.0, unit, &absolute_zero), GB_OK);
+    for (size_t i = count; i < total; i++) {
+        assert_int_equal(statuses[i], GB_ERR_SIGNAL_OUT_OF_RANGE);
+        assert_true(out[i] == (float)absolute_zero);
+    }
+    assert_int_equal(frame.unresolved, refused_count);
+}
+
+static void test_calibration_frame_matches_reference_vectors(void **state)
+{
+    static const float not_positive[] = {0.0f, -3.0f};
+    static const float below_offset[] = {1199.0f};
+    gb_calibration narrow = {GB_CALIBRATION_SAKUMA_HATTORI, {0}, 3, {0.6523, 41.7, 5e11}, {{0}}};
+    gb_calibration handheld = {GB_CALIBRATION_SAKUMA_HATTORI, {0}, 3, {9.6, 120.0, 1e5}, {{0}}};
+    gb_calibration lwir = {GB_CALIBRATION_BAND, long_wave, 2, {850.0, 1200.0}, {{0}}};
+    (void)state;
+    run_calibration_case(&narrow, narrow_rows, ROWS(narrow_rows), not_positive, 2, GB_CELSIUS,
+                         false);
+    run_calibration_case(&handheld, handheld_rows, ROWS(handheld_rows), not_positive, 2,
+                         GB_KELVIN, true);
+    run_calibration_case(&lwir, band_rows, ROWS(band_rows), below_offset, 1, GB_FAHRENHEIT,
+                         false);
+}
+
+static void test_calibration_frame_refuses_what_cannot_apply(void **state)
+{
+    float pixels[2] = {100.0f, 200.0f};
+    gb_frame frame = {2, pixels, GB_TERM_RADIANCE, 1.0, NULL, 1.0, GB_KELVIN, answer, NULL, 0};
+    gb_calibration negative_scale = {GB_CALIBRATION_SAKUMA_HATTORI, {0}, 3, {9.6, 120.0, -1e5},
+                                     {{0}}};
+    gb_calibration handheld = {GB_CALIBRATION_SAKUMA_HATTORI, {0}, 3, {9.6, 120.0, 1e5}, {{0}}};
+    (void)state;
+    assert_int_equal(gb_frame_calibration_apply(&negative_scale, &frame),
+                     GB_ERR_INVALID_ARGUMENT);
+    assert_int_equal(gb_frame_calibration_apply(NULL, &frame), GB_ERR_INVALID_ARGUMENT);
+    assert_int_equal(gb_frame_calibration_apply(&handheld, NULL), GB_ERR_INVALID_ARGUMENT);
+    frame.count = 0;
+    assert_int_equal(gb_frame_calibration_apply(&handheld, &frame), GB_ERR_INVALID_ARGUMENT);
+}
+
 int main(void)
 {
     const struct CMUnitTest tests[] = {
@@ -222,6 +322,8 @@ int main(void)
         cmocka_unit_test(test_brightness_frame_matches_scalar),
         cmocka_unit_test(test_array_lookups_equal_scalar_lookups),
         cmocka_unit_test(test_prepared_position_equals_scalar),
+        cmocka_unit_test(test_calibration_frame_matches_reference_vectors),
+        cmocka_unit_test(test_calibration_frame_refuses_what_cannot_apply),
     };
     return cmocka_run_group_tests(tests, NULL, NULL);
 }

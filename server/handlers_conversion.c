@@ -16,15 +16,17 @@
 typedef struct radiance_context {
     gb_spectral spectral;
     gb_temperature_unit unit;
+    const char *value_field; /* the input every other status is about */
 } radiance_context;
 
-static const char *radiance_field(const void *context, gb_status status)
+/* Shared by radiance and brightness temperature: position, emissivity, else the value. */
+static const char *spectral_field(const void *context, gb_status status)
 {
     const radiance_context *c = context;
     switch (status) {
     case GB_ERR_SPECTRAL_DOMAIN: return c->spectral.field;
     case GB_ERR_EMISSIVITY_DOMAIN: return "emissivity";
-    default: return "temperature";
+    default: return c->value_field;
     }
 }
 
@@ -99,23 +101,14 @@ void gb_handle_radiance(const gb_call *call, gb_reply *reply)
     batch.extras[0][1] = gb_temperature_unit_symbol(c.unit);
     batch.extra_count = 1;
     batch.element = radiance_element;
-    batch.field_for = radiance_field;
+    c.value_field = "temperature";
+    batch.field_for = spectral_field;
     batch.context = &c;
     gb_elementwise_reply(&batch, reply);
     gb_params_end(&p);
 }
 
 /* ------------------------------------------------- brightness temperature ---- */
-
-static const char *brightness_field(const void *context, gb_status status)
-{
-    const radiance_context *c = context;
-    switch (status) {
-    case GB_ERR_SPECTRAL_DOMAIN: return c->spectral.field;
-    case GB_ERR_EMISSIVITY_DOMAIN: return "emissivity";
-    default: return "radiance";
-    }
-}
 
 /* in: radiance, position, emissivity; out: temperature */
 static gb_status brightness_element(const void *context, const double *in, double *out,
@@ -169,7 +162,8 @@ void gb_handle_brightness_temperature(const gb_call *call, gb_reply *reply)
                                    gb_temperature_unit_symbol(c.unit), false};
     batch.output_count = 1;
     batch.element = brightness_element;
-    batch.field_for = brightness_field;
+    c.value_field = "radiance";
+    batch.field_for = spectral_field;
     batch.context = &c;
     gb_elementwise_reply(&batch, reply);
     gb_params_end(&p);

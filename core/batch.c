@@ -94,18 +94,26 @@ gb_status gb_batch_brightness_temperature(gb_spectral_coordinate coordinate, siz
     return GB_OK;
 }
 
+/* The checks both band forms make before their loops: buffers, inputs, then the band. */
+static gb_status check_band_batch(const gb_band *band, size_t count, gb_strided first,
+                                  gb_strided second, const double *results,
+                                  const gb_status *element_status)
+{
+    if (check_buffers(count, results, element_status) != GB_OK || !readable(first) ||
+        !readable(second)) {
+        return GB_ERR_INVALID_ARGUMENT;
+    }
+    return gb_band_validate(band);
+}
+
 gb_status gb_batch_band_radiance(const gb_band *band, size_t count, gb_strided temperature_k,
                                  gb_strided emissivity, double *radiance,
                                  gb_status *element_status)
 {
-    gb_status band_status;
-    if (check_buffers(count, radiance, element_status) != GB_OK || !readable(temperature_k) ||
-        !readable(emissivity)) {
-        return GB_ERR_INVALID_ARGUMENT;
-    }
-    band_status = gb_band_validate(band);
-    if (band_status != GB_OK) {
-        return band_status;
+    gb_status checked =
+        check_band_batch(band, count, temperature_k, emissivity, radiance, element_status);
+    if (checked != GB_OK) {
+        return checked;
     }
     for (size_t i = 0; i < count; ++i) {
         gb_band_quantities quantities = {0};
@@ -120,14 +128,10 @@ gb_status gb_batch_band_temperature(const gb_band *band, size_t count, gb_stride
                                     gb_strided emissivity, double *temperature_k,
                                     gb_status *element_status)
 {
-    gb_status band_status;
-    if (check_buffers(count, temperature_k, element_status) != GB_OK || !readable(radiance) ||
-        !readable(emissivity)) {
-        return GB_ERR_INVALID_ARGUMENT;
-    }
-    band_status = gb_band_validate(band);
-    if (band_status != GB_OK) {
-        return band_status;
+    gb_status checked =
+        check_band_batch(band, count, radiance, emissivity, temperature_k, element_status);
+    if (checked != GB_OK) {
+        return checked;
     }
     for (size_t i = 0; i < count; ++i) {
         double value = 0.0;

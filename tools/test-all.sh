@@ -17,5 +17,5 @@ totals=$(grep -E '^[a-z][a-z -]*: [0-9]+ passed, [0-9]+ failed' "$log" |
               END { printf "%d %d", p, f }')
 passed=${totals% *}; failed=${totals#* }
 [ "$status" -eq 0 ] || [ "$failed" -gt 0 ] || failed=1
-echo "make test: $passed passed, $failed failed"
+echo "total: $passed passed, $failed failed"
 exit "$status"

@@ -60,6 +60,28 @@ static gb_status radiance_element(const void *context, const double *in, double 
     return GB_OK;
 }
 
+/*
+ * The inputs radiance and brightness temperature share: a value named `c->value_field`, a
+ * spectral position and an emissivity, broadcast together.  On failure `problem` is set.
+ */
+static bool read_spectral_inputs(const gb_call *call, const char *const *fields, gb_params *p,
+                                 radiance_context *c, gb_num nums[3], gb_elementwise *batch,
+                                 gb_problem *problem)
+{
+    bool ok = gb_params_begin(p, call->input, call->from_query, call->config->max_array, fields,
+                              problem) &&
+              gb_params_temperature_unit(p, &c->unit) &&
+              gb_params_number(p, c->value_field, GB_REQUIRED | GB_ARRAY_OK, 0.0, &nums[0]) &&
+              gb_spectral_read(p, &c->spectral, &nums[1]) &&
+              gb_params_number(p, "emissivity", GB_ARRAY_OK, 1.0, &nums[2]);
+    for (size_t i = 0; i < 3; i++) {
+        batch->inputs[i] = &nums[i];
+    }
+    batch->input_count = 3;
+    return ok && gb_params_broadcast(p, batch->inputs, batch->input_count, &batch->count,
+                                     &batch->is_array);
+}
+
 void gb_handle_radiance(const gb_call *call, gb_reply *reply)
 {
     static const char *const fields[] = {"temperature", "wavelength", "wavenumber",
@@ -68,22 +90,10 @@ void gb_handle_radiance(const gb_call *call, gb_reply *reply)
     gb_problem problem;
     gb_problem_clear(&problem);
     gb_params p;
-    radiance_context c;
-    gb_num temperature, position, emissivity;
+    radiance_context c = {.value_field = "temperature"};
+    gb_num nums[3];
     gb_elementwise batch = {0};
-    bool ok = gb_params_begin(&p, call->input, call->from_query, call->config->max_array, fields,
-                              &problem) &&
-              gb_params_temperature_unit(&p, &c.unit) &&
-              gb_params_number(&p, "temperature", GB_REQUIRED | GB_ARRAY_OK, 0.0,
-                               &temperature) &&
-              gb_spectral_read(&p, &c.spectral, &position) &&
-              gb_params_number(&p, "emissivity", GB_ARRAY_OK, 1.0, &emissivity);
-    batch.inputs[0] = &temperature;
-    batch.inputs[1] = &position;
-    batch.inputs[2] = &emissivity;
-    batch.input_count = 3;
-    ok = ok && gb_params_broadcast(&p, batch.inputs, batch.input_count, &batch.count,
-                                   &batch.is_array);
+    bool ok = read_spectral_inputs(call, fields, &p, &c, nums, &batch, &problem);
     if (!ok) {
         gb_reply_problem(reply, &problem);
         gb_params_end(&p);
@@ -101,7 +111,6 @@ void gb_handle_radiance(const gb_call *call, gb_reply *reply)
     batch.extras[0][1] = gb_temperature_unit_symbol(c.unit);
     batch.extra_count = 1;
     batch.element = radiance_element;
-    c.value_field = "temperature";
     batch.field_for = spectral_field;
     batch.context = &c;
     gb_elementwise_reply(&batch, reply);
@@ -138,21 +147,10 @@ void gb_handle_brightness_temperature(const gb_call *call, gb_reply *reply)
     gb_problem problem;
     gb_problem_clear(&problem);
     gb_params p;
-    radiance_context c;
-    gb_num radiance, position, emissivity;
+    radiance_context c = {.value_field = "radiance"};
+    gb_num nums[3];
     gb_elementwise batch = {0};
-    bool ok = gb_params_begin(&p, call->input, call->from_query, call->config->max_array, fields,
-                              &problem) &&
-              gb_params_temperature_unit(&p, &c.unit) &&
-              gb_params_number(&p, "radiance", GB_REQUIRED | GB_ARRAY_OK, 0.0, &radiance) &&
-              gb_spectral_read(&p, &c.spectral, &position) &&
-              gb_params_number(&p, "emissivity", GB_ARRAY_OK, 1.0, &emissivity);
-    batch.inputs[0] = &radiance;
-    batch.inputs[1] = &position;
-    batch.inputs[2] = &emissivity;
-    batch.input_count = 3;
-    ok = ok && gb_params_broadcast(&p, batch.inputs, batch.input_count, &batch.count,
-                                   &batch.is_array);
+    bool ok = read_spectral_inputs(call, fields, &p, &c, nums, &batch, &problem);
     if (!ok) {
         gb_reply_problem(reply, &problem);
         gb_params_end(&p);
@@ -162,7 +160,6 @@ void gb_handle_brightness_temperature(const gb_call *call, gb_reply *reply)
                                    gb_temperature_unit_symbol(c.unit), false};
     batch.output_count = 1;
     batch.element = brightness_element;
-    c.value_field = "radiance";
     batch.field_for = spectral_field;
     batch.context = &c;
     gb_elementwise_reply(&batch, reply);
